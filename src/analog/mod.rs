@@ -1,0 +1,15 @@
+//! The exact analog model H(s) of a design.
+//!
+//! In: a validated [`crate::design::Design`] with knob positions. Out: an
+//! [`AnalogModel`]: the real first- and second-order factors of H(s) in stage order,
+//! each stage's own factors for reporting, and the whole design as an [`AnalogZpk`].
+//! s is in rad/s throughout. Buffered stages and filter families keep their known
+//! factors; only circuits and sums of paths are rooted.
+
+pub mod poly;
+pub mod roots;
+pub mod section;
+pub mod zpk;
+
+pub use section::AnalogSection;
+pub use zpk::AnalogZpk;

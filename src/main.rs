@@ -1,0 +1,3 @@
+fn main() {
+    println!("tonewright {}", env!("CARGO_PKG_VERSION"));
+}
