@@ -2,8 +2,10 @@
 //!
 //! A factor is H(s) = (n0 + n1·s + n2·s²) / (d0 + d1·s + d2·s²), coefficients in
 //! ascending powers, s in rad/s. A first-order factor has d2 = 0 (and n2 = 0); a pure
-//! gain has d1 = d2 = 0. Each factor knows the natural frequency of its poles, which is
-//! where `prewarp = "each"` matches the digital response to the analog one.
+//! gain has d1 = d2 = 0. Each factor carries the frequency where `prewarp = "each"`
+//! matches the digital response to the analog one: the natural frequency of its poles,
+//! or the design frequency f0 where a formula defines one (shelves, whose poles sit at
+//! f0·A^(∓1/4), are prewarped at f0 as in the audio EQ cookbook).
 
 use crate::analog::zpk::AnalogZpk;
 use crate::error::{Error, Result};
@@ -17,12 +19,22 @@ pub struct AnalogSection {
     pub num: [f64; 3],
     /// Denominator d0, d1, d2 (ascending powers of s).
     pub den: [f64; 3],
+    /// The frequency this factor is prewarped at under `prewarp = "each"`, Hz
+    /// (0 for a pure gain or poles at s = 0: plain bilinear transform).
+    pub natural_hz: f64,
 }
 
 impl AnalogSection {
     /// A constant gain.
     pub fn gain(k: f64) -> Self {
-        AnalogSection { num: [k, 0.0, 0.0], den: [1.0, 0.0, 0.0] }
+        AnalogSection { num: [k, 0.0, 0.0], den: [1.0, 0.0, 0.0], natural_hz: 0.0 }
+    }
+
+    /// A factor from its coefficients, prewarped at the natural frequency of its poles.
+    pub fn new(num: [f64; 3], den: [f64; 3]) -> Self {
+        let mut s = AnalogSection { num, den, natural_hz: 0.0 };
+        s.natural_hz = s.natural_rad() / (2.0 * std::f64::consts::PI);
+        s
     }
 
     /// H(s) at a complex frequency (rad/s).
@@ -87,7 +99,7 @@ impl AnalogSection {
         for c in &mut num {
             *c *= gain;
         }
-        AnalogSection { num, den: expand(poles) }
+        AnalogSection::new(num, expand(poles))
     }
 }
 
@@ -123,12 +135,13 @@ mod tests {
 
     #[test]
     fn zpk_round_trip_of_resonant_section() {
-        let s = AnalogSection { num: [4.0, 0.0, 1.0], den: [4.0, 0.5, 1.0] };
+        let s = AnalogSection::new([4.0, 0.0, 1.0], [4.0, 0.5, 1.0]);
         let z = s.zpk().unwrap();
         let back = AnalogSection::from_zpk(&z.zeros, &z.poles, z.gain);
         let x = Complex64::new(0.1, 1.7);
         assert!((s.eval(x) - back.eval(x)).norm() < 1e-14);
         assert_eq!(s.natural_rad(), 2.0);
+        assert_eq!(s.natural_hz, 1.0 / std::f64::consts::PI);
         assert_eq!(s.q(), Some(4.0));
     }
 }

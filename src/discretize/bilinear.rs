@@ -76,7 +76,7 @@ pub fn prewarp_constant(prewarp_hz: f64, rate: f64) -> f64 {
 /// use tonewright::discretize::{bilinear, Prewarp};
 /// // 1 kHz first-order low-pass at 48 kHz, prewarped: |H| = 1/√2 at 1 kHz.
 /// let w = 2.0 * std::f64::consts::PI * 1000.0;
-/// let lp = AnalogSection { num: [w, 0.0, 0.0], den: [w, 1.0, 0.0] };
+/// let lp = AnalogSection::new([w, 0.0, 0.0], [w, 1.0, 0.0]);
 /// let d = bilinear(&[lp], 48000.0, Prewarp::Each).unwrap();
 /// assert!((d.zpk.response_at_hz(1000.0).norm() - 0.5f64.sqrt()).abs() < 1e-12);
 /// ```
@@ -97,7 +97,7 @@ pub fn bilinear(sections: &[AnalogSection], rate: f64, prewarp: Prewarp) -> Resu
             Prewarp::None => None,
             Prewarp::AtHz(f) => Some(f),
             Prewarp::Each => {
-                let f0 = section.natural_rad() / (2.0 * PI);
+                let f0 = section.natural_hz;
                 if f0 <= 0.0 {
                     None
                 } else if f0 >= PREWARP_LIMIT * rate {
@@ -146,7 +146,7 @@ mod tests {
 
     #[test]
     fn bilinear_maps_zero_at_infinity_to_nyquist() {
-        let lp = AnalogSection { num: [1.0, 0.0, 0.0], den: [1.0, 1e-4, 1e-9] };
+        let lp = AnalogSection::new([1.0, 0.0, 0.0], [1.0, 1e-4, 1e-9]);
         let d = bilinear(&[lp], 48000.0, Prewarp::None).unwrap();
         assert_eq!(d.zpk.zeros, vec![Complex64::new(-1.0, 0.0); 2]);
     }
@@ -154,7 +154,7 @@ mod tests {
     #[test]
     fn single_prewarp_matches_analog_at_that_frequency() {
         // Oppenheim & Schafer 7.2: the map is exact at the prewarp frequency.
-        let lp = AnalogSection { num: [1.0, 0.0, 0.0], den: [1.0, 1e-4, 1e-9] };
+        let lp = AnalogSection::new([1.0, 0.0, 0.0], [1.0, 1e-4, 1e-9]);
         let d = bilinear(&[lp.clone()], 48000.0, Prewarp::AtHz(7000.0)).unwrap();
         let want = lp.eval(Complex64::new(0.0, 2.0 * PI * 7000.0));
         assert!((d.zpk.response_at_hz(7000.0) - want).norm() < 1e-12);
