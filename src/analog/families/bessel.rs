@@ -155,3 +155,19 @@ fn half_power_rad(poles: &[Complex64]) -> Result<f64> {
     }
     Ok(0.5 * (lo + hi))
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn bessel_coefficients_are_exact() {
+        // Reverse Bessel polynomials θ3 = s³ + 6s² + 15s + 15 and
+        // θ4 = s⁴ + 10s³ + 45s² + 105s + 105 (Williams & Taylor, from memory); a0 is the
+        // double factorial (2n − 1)!! = 1·3·5·…·(2n − 1) (module ref. 2).
+        assert_eq!(coefficients(3), vec![15, 15, 6, 1]);
+        assert_eq!(coefficients(4), vec![105, 105, 45, 10, 1]);
+        let odd_product: u128 = (1..=31u128).step_by(2).product();
+        assert_eq!(coefficients(16)[0], odd_product);
+    }
+}
