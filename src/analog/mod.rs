@@ -6,9 +6,12 @@
 //! s is in rad/s throughout. Buffered stages and filter families keep their known
 //! factors; only circuits and sums of paths are rooted.
 
+pub mod families;
+pub mod parametric;
 pub mod poly;
 pub mod roots;
 pub mod section;
+mod validate;
 pub mod zpk;
 
 pub use section::AnalogSection;
