@@ -12,6 +12,8 @@
 #![warn(missing_docs)]
 
 pub mod analog;
+pub mod atomic_file;
+pub mod audio;
 pub mod discretize;
 pub mod error;
 pub mod sections;
