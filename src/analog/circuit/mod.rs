@@ -215,9 +215,7 @@ pub fn solve(netlist: &Netlist) -> Result<CircuitSolution> {
 
 /// The roots of a determinant polynomial, refined against its pencil.
 fn refined_roots(coefficients: &[f64], pencil: &Pencil) -> Result<Vec<Complex64>> {
-    let mut found = roots(coefficients)?;
-    polish::polish(pencil, &mut found);
-    Ok(found)
+    Ok(polish::polish(pencil, roots(coefficients)?))
 }
 
 fn constant(gain: f64, warnings: Vec<String>) -> CircuitSolution {

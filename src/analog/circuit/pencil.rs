@@ -13,13 +13,20 @@ pub struct Pencil {
     n: usize,
     a0: Vec<f64>,
     a1: Vec<f64>,
+    /// The nonzero columns of A1 (index, dense column): the only ones the derivative
+    /// of det A(z) needs, fewer than n when there are resistors or op-amps.
+    a1_columns: Vec<(usize, Vec<Complex64>)>,
 }
 
 impl Pencil {
     /// A pencil from its two matrices.
     pub fn new(n: usize, a0: Vec<f64>, a1: Vec<f64>) -> Pencil {
         debug_assert!(a0.len() == n * n && a1.len() == n * n);
-        Pencil { n, a0, a1 }
+        let a1_columns = (0..n)
+            .filter(|&j| (0..n).any(|i| a1[i * n + j] != 0.0))
+            .map(|j| (j, (0..n).map(|i| Complex64::new(a1[i * n + j], 0.0)).collect()))
+            .collect();
+        Pencil { n, a0, a1, a1_columns }
     }
 
     /// The LU factors of A(z); `None` when A(z) is singular to working precision.
@@ -40,24 +47,17 @@ impl Pencil {
     /// The pencil with column `col` replaced by the constant vector `rhs`: its
     /// determinant over det A(z) is unknown `col` of A(z)·x = rhs (Cramer's rule).
     pub fn with_column(&self, col: usize, rhs: &[f64]) -> Pencil {
-        let mut out = self.clone();
+        let (mut a0, mut a1) = (self.a0.clone(), self.a1.clone());
         for (i, &value) in rhs.iter().enumerate() {
-            out.a0[i * self.n + col] = value;
-            out.a1[i * self.n + col] = 0.0;
+            a0[i * self.n + col] = value;
+            a1[i * self.n + col] = 0.0;
         }
-        out
+        Pencil::new(self.n, a0, a1)
     }
 
     /// d/dz ln det A(z) = trace(A(z)⁻¹·A1), from the factors of A(z).
     pub fn log_derivative(&self, lu: &Lu) -> Complex64 {
-        let n = self.n;
-        (0..n)
-            .filter_map(|j| {
-                let column: Vec<Complex64> =
-                    (0..n).map(|i| Complex64::new(self.a1[i * n + j], 0.0)).collect();
-                column.iter().any(|c| c.re != 0.0).then(|| lu.solve(&column)[j])
-            })
-            .sum()
+        self.a1_columns.iter().map(|(j, column)| lu.solve(column)[*j]).sum()
     }
 }
 
