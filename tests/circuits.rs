@@ -6,7 +6,7 @@ use num_complex::Complex64;
 use serde::Deserialize;
 use std::f64::consts::PI;
 use std::time::{Duration, Instant};
-use tonewright::analog::circuit::{solve, Element, Netlist, Part, MAX_PARTS};
+use tonewright::analog::circuit::{solve, Element, Netlist, Part, MAX_PARTS, MAX_REACTIVE};
 use tonewright::Error;
 
 #[derive(Deserialize)]
@@ -443,4 +443,48 @@ fn output_wired_to_ground_gives_zero_with_a_warning() {
     let solution = solve(&net).unwrap();
     assert_eq!(solution.zpk.gain, 0.0);
     assert!(solution.warnings[0].contains("joined to gnd"), "{:?}", solution.warnings);
+}
+
+#[test]
+fn more_reactive_parts_than_allowed_are_refused() {
+    let sections = MAX_REACTIVE + 1;
+    let node = |k: usize| if k == sections { "out".to_string() } else { format!("n{k}") };
+    let mut parts = Vec::new();
+    for k in 0..sections {
+        let from = if k == 0 { "in".to_string() } else { node(k) };
+        parts.push(r(&format!("r{k}"), 1e3, &from, &node(k + 1)));
+        parts.push(c(&format!("c{k}"), 10e-9, &node(k + 1), "gnd"));
+    }
+    assert_eq!(
+        input_error(&netlist(parts)),
+        format!(
+            "circuit with output 'out' has {sections} capacitors and inductors, more than the \
+             {MAX_REACTIVE} allowed"
+        )
+    );
+}
+
+#[test]
+fn mode_hidden_from_the_output_is_cancelled_and_recorded() {
+    // A second RC branch hangs on the ideal source and cannot reach the output, so H is
+    // the plain RC low-pass 1/(1 + sRC) (textbook) and the branch's pole −1/(R2C2)
+    // cancels against an equal zero.
+    let (rv, cv, r2, c2) = (10e3, 10e-9, 4.7e3, 33e-9);
+    let net = netlist(vec![
+        r("r1", rv, "in", "out"),
+        c("c1", cv, "out", "gnd"),
+        r("r2", r2, "in", "x"),
+        c("c2", c2, "x", "gnd"),
+    ]);
+    let solution = solve(&net).unwrap();
+    assert_eq!(solution.zpk.poles.len(), 1);
+    assert!((solution.zpk.poles[0].re + 1.0 / (rv * cv)).abs() <= 1e-10 / (rv * cv));
+    assert_eq!(solution.cancelled.len(), 1);
+    let (pole, zero) = solution.cancelled[0];
+    assert!((pole.re + 1.0 / (r2 * c2)).abs() <= 1e-10 / (r2 * c2), "{pole}");
+    assert!((zero - pole).norm() <= 1e-6 * pole.norm(), "{zero}");
+    for hz in [50.0, 1591.5, 20e3] {
+        let want = 1.0 / (1.0 + jw(hz) * rv * cv);
+        assert!((solution.zpk.eval(jw(hz)) - want).norm() <= 1e-12 * want.norm());
+    }
 }

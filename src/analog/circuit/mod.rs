@@ -16,7 +16,8 @@
 //! [3], and its roots from Aberth iteration [2] on the scaled polynomial, refined
 //! against the matrix itself with the exact derivative d/dz ln det A = trace(A⁻¹·A1).
 //! The gain is H at the sample point farthest from every root divided by the root
-//! factors there. A state-space form was not chosen: A1 is singular whenever the circuit
+//! factors there, and the result is checked against H solved directly at every
+//! sample point before it is returned. A state-space form was not chosen: A1 is singular whenever the circuit
 //! has op-amps, capacitor loops or inductor cutsets, which a state-space form has to
 //! reduce away first; the determinant route needs only LU and handles what the
 //! equations handle, and the refinement recovers the digits interpolation loses when
@@ -30,7 +31,7 @@
 //! Not done here: nonlinear or large-signal behaviour, op-amp bandwidth, slew or
 //! offset, noise, mutual inductance, sources other than the input. Unstable circuits
 //! are returned with a warning and the caller decides. Netlists of more than
-//! [`MAX_PARTS`] parts are refused.
+//! [`MAX_PARTS`] parts or [`MAX_REACTIVE`] capacitors and inductors are refused.
 //!
 //! # References
 //! 1. C.-W. Ho, A. E. Ruehli, P. A. Brennan, "The modified nodal approach to network
@@ -70,13 +71,20 @@ pub const CANCEL_TOLERANCE: f64 = 1e-6;
 /// a tone stage has tens of parts; a few hundred already take tens of milliseconds.
 pub const MAX_PARTS: usize = 250;
 
+/// The most capacitors and inductors a circuit may have: the degree of the
+/// interpolated determinants. Their coefficients span more than the 1e11 that f64
+/// interpolation resolves once the degree passes about 25 with poles over three
+/// decades (a 28-section RC ladder loses a pole); tone stages have under a dozen.
+pub const MAX_REACTIVE: usize = 24;
+
+/// |H| from the zeros, poles and gain must match H computed directly at every sample
+/// point to this relative error (plus the same fraction of 1e-6 of the largest |H|), or
+/// the solution is refused: 1e-6 is the accuracy promised by the reference tests.
+const VERIFY: f64 = 1e-6;
+
 /// Circle radii (in units of ω_ref) tried in turn: the later ones only when a sample
 /// point happens to sit on a root of det A(z).
 const RADII: [f64; 3] = [1.0, 1.13, 0.87];
-
-/// |H| below this at every sample point is a response that is identically zero (a
-/// balanced bridge): the determinant of N is then rounding noise.
-const ZERO_RESPONSE: f64 = 1e-13;
 
 /// A pole with |Re p| at most this fraction of |p| is on the imaginary axis.
 const ON_AXIS: f64 = 1e-9;
@@ -113,9 +121,10 @@ pub struct CircuitSolution {
 ///
 /// # Errors
 /// [`Error::Input`] naming the part or node for bad values, empty or equal port names,
-/// floating nodes, islands, an output the input cannot reach, too many parts, or more
-/// zeros than poles; [`Error::Numeric`] when the circuit equations are singular (an
-/// op-amp without feedback, driven outputs tied together).
+/// floating nodes, islands, an output the input cannot reach, too many parts or
+/// reactive parts, or more zeros than poles; [`Error::Numeric`] when the circuit
+/// equations are singular (an op-amp without feedback, driven outputs tied together)
+/// or the zeros and poles found do not reproduce the directly solved H.
 pub fn solve(netlist: &Netlist) -> Result<CircuitSolution> {
     if netlist.parts.len() > MAX_PARTS {
         return Err(Error::input(format!(
@@ -144,6 +153,13 @@ pub fn solve(netlist: &Netlist) -> Result<CircuitSolution> {
         Some(out) => out,
     };
     let mna = mna::build(&circuit, output);
+    if mna.reactive > MAX_REACTIVE {
+        return Err(Error::input(format!(
+            "circuit with output '{}' has {} capacitors and inductors, more than the \
+             {MAX_REACTIVE} allowed",
+            netlist.output, mna.reactive
+        )));
+    }
     let den_pencil = &mna.pencil;
     let num_pencil = mna.pencil.with_column(mna.output, &mna.rhs);
     let m = interpolate::point_count(mna.reactive);
@@ -157,8 +173,18 @@ pub fn solve(netlist: &Netlist) -> Result<CircuitSolution> {
             den.map(|den| (radius, points, den))
         })
         .ok_or_else(|| singular(&circuit, netlist))?;
-    // N is singular wherever H is exactly 0 there: that is a value, not a failure.
-    let num: Vec<Option<LogDet>> = points.iter().map(|z| dets(&num_pencil, z)).collect();
+    // N singular to working precision at every point is a response that is identically
+    // zero (a balanced bridge). Otherwise N is evaluated exactly: a small det N is a
+    // small |H| (a long low-pass far above its corner), not a failure.
+    if points.iter().all(|z| num_pencil.factor(*z).is_none()) {
+        warnings.push(format!(
+            "output node '{}' carries no signal (its equations are singular): H(s) = 0",
+            netlist.output
+        ));
+        return Ok(constant(0.0, warnings));
+    }
+    let num: Vec<Option<LogDet>> =
+        points.iter().map(|z| num_pencil.factor_near_root(*z).map(|lu| lu.det())).collect();
     let h: Vec<Complex64> = den
         .iter()
         .zip(&num)
@@ -168,13 +194,6 @@ pub fn solve(netlist: &Netlist) -> Result<CircuitSolution> {
             })
         })
         .collect();
-    if h.iter().all(|v| v.norm() < ZERO_RESPONSE) {
-        warnings.push(format!(
-            "output node '{}' carries no signal (|H| < {ZERO_RESPONSE:e} everywhere): H(s) = 0",
-            netlist.output
-        ));
-        return Ok(constant(0.0, warnings));
-    }
 
     let den_coefficients =
         interpolate::coefficients(&den.iter().copied().map(Some).collect::<Vec<_>>(), m, radius);
@@ -208,6 +227,7 @@ pub fn solve(netlist: &Netlist) -> Result<CircuitSolution> {
     let factor: Complex64 = poles.iter().map(|p| s0 - p).product::<Complex64>()
         / zeros.iter().map(|z| s0 - z).product::<Complex64>();
     let zpk = AnalogZpk { gain: (h[best] * factor).re, zeros, poles };
+    verify(&zpk, &points, &h, w, &netlist.output)?;
     warnings.extend(stability_warnings(&zpk.poles));
     let cancelled = cancelled.into_iter().map(|(p, z)| (p * w, z * w)).collect();
     Ok(CircuitSolution { zpk, cancelled, warnings })
@@ -216,6 +236,34 @@ pub fn solve(netlist: &Netlist) -> Result<CircuitSolution> {
 /// The roots of a determinant polynomial, refined against its pencil.
 fn refined_roots(coefficients: &[f64], pencil: &Pencil) -> Result<Vec<Complex64>> {
     Ok(polish::polish(pencil, roots(coefficients)?))
+}
+
+/// Checks the solution against H computed directly at the sample points, so a
+/// polynomial that interpolation could not resolve is refused rather than returned.
+fn verify(
+    zpk: &AnalogZpk,
+    points: &[Complex64],
+    h: &[Complex64],
+    omega_ref: f64,
+    output: &str,
+) -> Result<()> {
+    let largest = h.iter().fold(0.0f64, |m, v| m.max(v.norm()));
+    for (z, want) in points.iter().zip(h) {
+        let s = z * omega_ref;
+        let error = (zpk.eval(s) - want).norm();
+        if error > VERIFY * (want.norm() + 1e-6 * largest) {
+            return Err(Error::numeric(format!(
+                "circuit with output '{output}': H(s) from its poles and zeros misses the \
+                 direct solution by {:.1e} (relative) at s = {:.4e}{:+.4e}i rad/s, more than \
+                 {VERIFY:e}; hint: fewer capacitors and inductors, or part values closer \
+                 in scale",
+                error / want.norm().max(f64::MIN_POSITIVE),
+                s.re,
+                s.im
+            )));
+        }
+    }
+    Ok(())
 }
 
 fn constant(gain: f64, warnings: Vec<String>) -> CircuitSolution {
