@@ -67,8 +67,9 @@ use topology::Circuit;
 /// genuine pair this close changes |H| by at most about 1e-6 relative near it.
 pub const CANCEL_TOLERANCE: f64 = 1e-6;
 
-/// The most parts a netlist may have. Each sample point costs a dense LU of O(n³) and
-/// a tone stage has tens of parts; a few hundred already take tens of milliseconds.
+/// The most parts a netlist may have. Each sample point and each refinement step costs
+/// a dense LU of O(n³) in the number of nodes and branches, and a tone stage has tens
+/// of parts; the bound keeps time and memory small whatever the caller passes.
 pub const MAX_PARTS: usize = 250;
 
 /// The most capacitors and inductors a circuit may have: the degree of the
