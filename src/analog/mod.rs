@@ -6,6 +6,7 @@
 //! s is in rad/s throughout. Buffered stages and filter families keep their known
 //! factors; only circuits and sums of paths are rooted.
 
+pub mod circuit;
 pub mod families;
 pub mod parametric;
 pub mod poly;

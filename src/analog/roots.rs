@@ -79,7 +79,7 @@ fn aberth(p: &[f64]) -> Result<Vec<Complex64>> {
 
 /// Makes near-real roots exactly real and the rest exact conjugate pairs (positive
 /// imaginary part first), sorted by modulus.
-fn pair_conjugates(mut r: Vec<Complex64>) -> Vec<Complex64> {
+pub(crate) fn pair_conjugates(mut r: Vec<Complex64>) -> Vec<Complex64> {
     let tol = 1e-10;
     let mut out = Vec::with_capacity(r.len());
     r.sort_by(|a, b| a.norm().total_cmp(&b.norm()));
