@@ -14,6 +14,8 @@
 pub mod analog;
 pub mod discretize;
 pub mod error;
+pub mod quantize;
 pub mod sections;
+pub mod simulate;
 
 pub use error::{Error, Result};
