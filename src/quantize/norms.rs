@@ -21,7 +21,7 @@ pub const MAX_IMPULSE_LEN: usize = 1 << 24;
 /// Samples of impulse response summed for a chain (None: not stable).
 fn impulse_len(sections: &[Sos]) -> Option<usize> {
     let rho = max_pole_radius(sections);
-    if !(rho < 1.0) {
+    if rho.is_nan() || rho >= 1.0 {
         return None;
     }
     let fir = 16 * sections.len() + 1;
@@ -97,7 +97,8 @@ fn gain_at(sections: &[Sos], w: f64) -> f64 {
 /// assert!((linf_norm(&[s]) - 2.0).abs() < 1e-12);
 /// ```
 pub fn linf_norm(sections: &[Sos]) -> f64 {
-    if !(max_pole_radius(sections) < 1.0) {
+    let rho = max_pole_radius(sections);
+    if rho.is_nan() || rho >= 1.0 {
         return f64::INFINITY;
     }
     const GRID: usize = 8192;

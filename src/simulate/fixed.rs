@@ -294,7 +294,7 @@ impl FixedEngine {
         check_channels(channels)?;
         let frac = fixed.validate()?;
         let f = fixed.format;
-        let word_limits = |bits: u32| (-(1i64 << (bits - 1)), ((1i128 << (bits - 1)) - 1) as i64);
+        let word_limits = |bits: u32| (i64::MIN >> (64 - bits), i64::MAX >> (64 - bits));
         let (acc_lo, acc_hi) = word_limits(f.acc_bits);
         let (data_lo, data_hi) = word_limits(f.data_bits);
         let params = Params {
@@ -336,14 +336,12 @@ impl FixedEngine {
         self.overflows
     }
 
-    /// The state of one section of one channel: df1 x1, x2, y1, y2, e1, e2 (samples
-    /// and narrowing errors); df2t s1, s2 at accumulator width, then two zeros.
-    /// Used to start zero-input runs from chosen states.
-    pub(crate) fn state_mut(&mut self, channel: usize, section: usize) -> Option<&mut [i64; 6]> {
-        if section >= self.sections.len() || channel >= self.channels {
-            return None;
-        }
-        self.state.get_mut(channel * self.sections.len() + section)
+    /// The states of one channel, section by section: df1 x1, x2, y1, y2, e1, e2
+    /// (samples and narrowing errors); df2t s1, s2 at accumulator width, then zeros.
+    /// Lets zero-input runs start from chosen states; `None` for a channel out of range.
+    pub(crate) fn channel_state_mut(&mut self, channel: usize) -> Option<&mut [[i64; 6]]> {
+        let ns = self.sections.len();
+        (channel < self.channels).then(|| &mut self.state[channel * ns..(channel + 1) * ns])
     }
 }
 
