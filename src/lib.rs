@@ -16,6 +16,8 @@ pub mod atomic_file;
 pub mod audio;
 pub mod discretize;
 pub mod error;
+pub mod quantize;
 pub mod sections;
+pub mod simulate;
 
 pub use error::{Error, Result};

@@ -155,7 +155,7 @@ mod tests {
     fn single_prewarp_matches_analog_at_that_frequency() {
         // Oppenheim & Schafer 7.2: the map is exact at the prewarp frequency.
         let lp = AnalogSection::new([1.0, 0.0, 0.0], [1.0, 1e-4, 1e-9]);
-        let d = bilinear(&[lp.clone()], 48000.0, Prewarp::AtHz(7000.0)).unwrap();
+        let d = bilinear(std::slice::from_ref(&lp), 48000.0, Prewarp::AtHz(7000.0)).unwrap();
         let want = lp.eval(Complex64::new(0.0, 2.0 * PI * 7000.0));
         assert!((d.zpk.response_at_hz(7000.0) - want).norm() < 1e-12);
     }

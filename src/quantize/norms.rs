@@ -1,0 +1,157 @@
+//! L1, L2 and L∞ norms of a chain of sections, for scaling and noise analysis.
+//!
+//! L1 and L2 sum the impulse response of the chain; the sum runs until the slowest
+//! pole (radius ρ) has decayed to 10^−12 twice over, n = 2·ln(10^−12)/ln ρ samples
+//! plus 16 per section (so repeated poles and the FIR part are covered), at most
+//! [`MAX_IMPULSE_LEN`] samples. A chain with a pole on or outside the unit circle has
+//! infinite norms. L∞ is the largest |H(e^{jω})| on a grid of 8192 uniform
+//! frequencies plus every pole angle, refined by golden-section search around the
+//! best grid point.
+
+use super::poles::{max_pole_radius, poles};
+use super::Structure;
+use crate::sections::{Cascade, Sos};
+use crate::simulate::{Engine, FloatEngine};
+use num_complex::Complex64;
+use std::f64::consts::PI;
+
+/// The longest impulse response summed by [`l1_norm`] and [`l2_norm`].
+pub const MAX_IMPULSE_LEN: usize = 1 << 24;
+
+/// Samples of impulse response summed for a chain (None: not stable).
+fn impulse_len(sections: &[Sos]) -> Option<usize> {
+    let rho = max_pole_radius(sections);
+    if rho.is_nan() || rho >= 1.0 {
+        return None;
+    }
+    let fir = 16 * sections.len() + 1;
+    let decay = if rho == 0.0 { 0.0 } else { 2.0 * (1e-12f64).ln() / rho.ln() };
+    Some((decay.ceil() as usize).saturating_add(fir).min(MAX_IMPULSE_LEN))
+}
+
+/// Σ f(h[n]) over the truncated impulse response of the chain (∞ if unstable).
+fn impulse_sum(sections: &[Sos], f: impl Fn(f64) -> f64) -> f64 {
+    let Some(len) = impulse_len(sections) else {
+        return f64::INFINITY;
+    };
+    let chain = Cascade { rate: 1.0, sections: sections.to_vec() };
+    let Ok(mut engine) = FloatEngine::<f64>::new(&chain, Structure::Df2t, 1) else {
+        return f64::NAN;
+    };
+    let mut block = vec![0.0; 4096.min(len)];
+    let (mut done, mut total) = (0, 0.0);
+    while done < len {
+        let n = block.len().min(len - done);
+        block[..n].fill(0.0);
+        if done == 0 {
+            block[0] = 1.0;
+        }
+        if engine.process(&mut block[..n]).is_err() {
+            return f64::NAN;
+        }
+        total += block[..n].iter().map(|&h| f(h)).sum::<f64>();
+        done += n;
+    }
+    total
+}
+
+/// Σ|h[n]|: the largest output peak for an input bounded by 1 (∞ if unstable).
+///
+/// ```
+/// use tonewright::quantize::l1_norm;
+/// use tonewright::sections::Sos;
+/// // y[n] = x[n] + 0.5·y[n−1]: Σ 0.5^n = 2.
+/// let s = Sos { b: [1.0, 0.0, 0.0], a: [-0.5, 0.0] };
+/// assert!((l1_norm(&[s]) - 2.0).abs() < 1e-12);
+/// ```
+pub fn l1_norm(sections: &[Sos]) -> f64 {
+    impulse_sum(sections, f64::abs)
+}
+
+/// √(Σ h[n]²): output RMS for unit-variance white input (∞ if unstable).
+///
+/// ```
+/// use tonewright::quantize::l2_norm;
+/// use tonewright::sections::Sos;
+/// // Σ 0.25^n = 4/3.
+/// let s = Sos { b: [1.0, 0.0, 0.0], a: [-0.5, 0.0] };
+/// assert!((l2_norm(&[s]) - (4.0f64 / 3.0).sqrt()).abs() < 1e-12);
+/// ```
+pub fn l2_norm(sections: &[Sos]) -> f64 {
+    impulse_sum(sections, |h| h * h).sqrt()
+}
+
+/// |H| of the chain at normalized angular frequency ω (radians per sample).
+fn gain_at(sections: &[Sos], w: f64) -> f64 {
+    let z = Complex64::from_polar(1.0, w);
+    sections.iter().map(|s| s.eval(z)).product::<Complex64>().norm()
+}
+
+/// max over ω of |H(e^{jω})|: the largest gain for a sine (∞ if unstable).
+///
+/// ```
+/// use tonewright::quantize::linf_norm;
+/// use tonewright::sections::Sos;
+/// // 1/(1 − 0.5 z⁻¹) peaks at DC: 2.
+/// let s = Sos { b: [1.0, 0.0, 0.0], a: [-0.5, 0.0] };
+/// assert!((linf_norm(&[s]) - 2.0).abs() < 1e-12);
+/// ```
+pub fn linf_norm(sections: &[Sos]) -> f64 {
+    let rho = max_pole_radius(sections);
+    if rho.is_nan() || rho >= 1.0 {
+        return f64::INFINITY;
+    }
+    const GRID: usize = 8192;
+    let step = PI / GRID as f64;
+    let candidates = (0..=GRID)
+        .map(|k| k as f64 * step)
+        .chain(sections.iter().flat_map(poles).map(|p| p.arg().abs()));
+    let (w_best, g_best) = candidates
+        .map(|w| (w, gain_at(sections, w)))
+        .fold((0.0, f64::NEG_INFINITY), |b, c| if c.1 > b.1 { c } else { b });
+    // Golden-section search for a maximum in [w − step, w + step] ∩ [0, π].
+    let (mut lo, mut hi) = ((w_best - step).max(0.0), (w_best + step).min(PI));
+    let inv_phi = (5f64.sqrt() - 1.0) / 2.0;
+    for _ in 0..60 {
+        let (m1, m2) = (hi - inv_phi * (hi - lo), lo + inv_phi * (hi - lo));
+        if gain_at(sections, m1) < gain_at(sections, m2) {
+            lo = m1;
+        } else {
+            hi = m2;
+        }
+    }
+    g_best.max(gain_at(sections, 0.5 * (lo + hi)))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_sharp_resonance_between_grid_points_is_found() {
+        // Pole radius 0.99999 at an angle off the grid: peak width ~1e-5 rad.
+        let (r, th) = (0.99999_f64, 1.000_123_f64);
+        let s = Sos { b: [1.0, 0.0, 0.0], a: [-2.0 * r * th.cos(), r * r] };
+        let z = Complex64::from_polar(1.0, th);
+        let near_peak = s.eval(z).norm();
+        let got = linf_norm(&[s]);
+        assert!(got >= near_peak * (1.0 - 1e-9), "{got} < {near_peak}");
+    }
+
+    #[test]
+    fn unstable_chains_have_infinite_norms() {
+        let s = Sos { b: [1.0, 0.0, 0.0], a: [-1.0, 0.0] };
+        assert!(l1_norm(&[s]).is_infinite() && l2_norm(&[s]).is_infinite());
+        assert!(linf_norm(&[s]).is_infinite());
+    }
+
+    #[test]
+    fn l2_of_a_resonator_matches_its_closed_form() {
+        // 1/(1 + a1 z⁻¹ + a2 z⁻²): Σh² = (1 + a2) / ((1 − a2)((1 + a2)² − a1²)), a
+        // standard result for the all-pole second-order section (common practice).
+        let (a1, a2) = (-1.8, 0.9);
+        let s = Sos { b: [1.0, 0.0, 0.0], a: [a1, a2] };
+        let want = (1.0 + a2) / ((1.0 - a2) * ((1.0 + a2) * (1.0 + a2) - a1 * a1));
+        assert!((l2_norm(&[s]).powi(2) - want).abs() < 1e-10 * want);
+    }
+}

@@ -1,0 +1,76 @@
+//! Conversion between fractions of full scale and integer samples of a data word.
+
+use crate::error::{Error, Result};
+
+/// The scale of a `data_bits`-bit sample word: full scale 1.0 is 2^(data_bits−1).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct SampleScale {
+    bits: u32,
+}
+
+impl SampleScale {
+    /// The scale of a data word of `data_bits` bits (2..=32).
+    ///
+    /// # Errors
+    /// `data_bits` outside 2..=32, named as `target.fixed.data_bits`.
+    pub fn new(data_bits: u32) -> Result<Self> {
+        if !(2..=32).contains(&data_bits) {
+            return Err(Error::input(format!(
+                "target.fixed.data_bits: {data_bits} must be between 2 and 32"
+            )));
+        }
+        Ok(Self { bits: data_bits })
+    }
+
+    /// Largest sample value, 2^(data_bits−1) − 1.
+    pub fn max(&self) -> i32 {
+        ((1i64 << (self.bits - 1)) - 1) as i32
+    }
+
+    /// Smallest sample value, −2^(data_bits−1).
+    pub fn min(&self) -> i32 {
+        (-(1i64 << (self.bits - 1))) as i32
+    }
+
+    /// One LSB as a fraction of full scale, 2^−(data_bits−1).
+    pub fn lsb(&self) -> f64 {
+        2f64.powi(1 - self.bits as i32)
+    }
+
+    /// A fraction of full scale to the nearest sample (ties to even), saturated to the
+    /// word; NaN maps to 0.
+    ///
+    /// ```
+    /// use tonewright::simulate::SampleScale;
+    /// let q15 = SampleScale::new(16).unwrap();
+    /// assert_eq!(q15.to_int(0.5), 16384);
+    /// assert_eq!(q15.to_int(1.0), 32767); // saturated
+    /// ```
+    pub fn to_int(&self, x: f64) -> i32 {
+        let v = (x / self.lsb()).round_ties_even();
+        // `as` saturates and maps NaN to 0; then clamp to the word.
+        (v as i64).clamp(self.min() as i64, self.max() as i64) as i32
+    }
+
+    /// A sample as a fraction of full scale.
+    pub fn to_f64(&self, v: i32) -> f64 {
+        v as f64 * self.lsb()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn conversion_saturates_and_rounds_ties_to_even() {
+        let s = SampleScale::new(24).unwrap();
+        assert_eq!((s.min(), s.max()), (-8_388_608, 8_388_607));
+        assert_eq!(s.to_int(-2.0), s.min());
+        assert_eq!(s.to_int(2.5 * s.lsb()), 2);
+        assert_eq!(s.to_int(f64::NAN), 0);
+        let s32 = SampleScale::new(32).unwrap();
+        assert_eq!((s32.to_int(1.0), s32.to_int(-1.0)), (i32::MAX, i32::MIN));
+        assert!(SampleScale::new(33).is_err());
+    }
+}
