@@ -6,17 +6,23 @@
 //! to z with prewarping; [`sections::build`] pairs poles and zeros into a float64
 //! [`sections::Cascade`] with Lp-norm gain scaling; [`quantize`] turns it into the
 //! integers a target stores and says what that did; [`simulate`] runs float and
-//! bit-exact fixed-point engines over sample blocks; [`audio`], [`analysis`], `plot`
-//! and `export` turn the results into WAV files, reports, figures and firmware.
+//! bit-exact fixed-point engines over sample blocks; [`audio`], [`analysis`],
+//! [`report`], `plot` and `export` turn the results into WAV files, reports, figures
+//! and firmware. [`pipeline::port`] runs the front half in one call.
 
 #![warn(missing_docs)]
 
 pub mod analog;
+pub mod analysis;
 pub mod atomic_file;
 pub mod audio;
+pub mod cli;
+pub mod design;
 pub mod discretize;
 pub mod error;
+pub mod pipeline;
 pub mod quantize;
+pub mod report;
 pub mod sections;
 pub mod simulate;
 

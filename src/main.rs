@@ -1,3 +1,5 @@
+//! The `tonewright` binary: all work happens in the library's `cli` module.
+
 fn main() {
-    println!("tonewright {}", env!("CARGO_PKG_VERSION"));
+    std::process::exit(tonewright::cli::run(std::env::args_os()));
 }

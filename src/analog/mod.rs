@@ -7,7 +7,9 @@
 //! factors; only circuits and sums of paths are rooted.
 
 pub mod circuit;
+pub mod factorize;
 pub mod families;
+mod model;
 pub mod parametric;
 pub mod poly;
 pub mod roots;
@@ -17,3 +19,5 @@ pub mod zpk;
 
 pub use section::AnalogSection;
 pub use zpk::AnalogZpk;
+
+pub use model::{model, AnalogModel, StageModel, SUM_CANCEL_TOLERANCE};

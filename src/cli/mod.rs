@@ -1,0 +1,47 @@
+//! The command line: one file per verb; each parses its arguments, calls the library
+//! and prints. Errors print as one `error: …` line and map to exit codes (0 ok, 1 a
+//! requested check failed or an internal error, 2 bad input or I/O).
+
+mod inspect;
+mod signal;
+
+use clap::{Parser, Subcommand};
+use std::ffi::OsString;
+
+/// Port analog filters and tone stages to DSP firmware.
+#[derive(Debug, Parser)]
+#[command(name = "tonewright", version, about, long_about = None)]
+struct Cli {
+    #[command(subcommand)]
+    verb: Verb,
+}
+
+#[derive(Debug, Subcommand)]
+enum Verb {
+    /// Report the analog model, the digital sections and how they differ.
+    Inspect(inspect::Args),
+    /// Write a test signal (sine, sweep, noise, impulse, multi-tone, mains hum) as WAV.
+    Signal(signal::Args),
+}
+
+/// Runs the tool on command-line arguments and returns the process exit code.
+pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
+    let cli = match Cli::try_parse_from(args) {
+        Ok(cli) => cli,
+        Err(e) => {
+            let _ = e.print();
+            return e.exit_code();
+        }
+    };
+    let result = match cli.verb {
+        Verb::Inspect(a) => inspect::run(a),
+        Verb::Signal(a) => signal::run(a),
+    };
+    match result {
+        Ok(()) => 0,
+        Err(e) => {
+            eprintln!("error: {e}");
+            e.exit_code()
+        }
+    }
+}
