@@ -1,7 +1,7 @@
 //! Coefficient quantization: float sections to the integers a target stores.
 
 use super::format::{FixedFormat, Structure};
-use super::poles::poles;
+use crate::sections::poles;
 use crate::error::{Error, Result};
 use crate::sections::{Cascade, Sos};
 use serde::Serialize;

@@ -2,7 +2,7 @@
 
 use super::coefs::FixedCascade;
 use super::format::Structure;
-use super::norms::{l1_norm, linf_norm};
+use crate::sections::norms::{l1_norm, linf_norm};
 use crate::error::Result;
 use crate::sections::Sos;
 use serde::Serialize;

@@ -1,7 +1,7 @@
 //! Zero-input limit cycles: run the bit-exact engine from many seeded states.
 
 use super::coefs::FixedCascade;
-use super::poles::max_pole_radius;
+use crate::sections::max_pole_radius;
 use crate::error::Result;
 use crate::simulate::{Engine, FixedEngine};
 use serde::Serialize;

@@ -23,8 +23,6 @@ mod format;
 mod headroom;
 mod limit_cycle;
 mod noise;
-mod norms;
-mod poles;
 mod report;
 mod verdict;
 
@@ -35,7 +33,5 @@ pub use limit_cycle::{
     find_limit_cycle, LimitCycle, LimitCycleSearch, LIMIT_CYCLE_SEEDS, MAX_PERIOD,
 };
 pub use noise::{rounding_noise, NoiseReport};
-pub use norms::{l1_norm, l2_norm, linf_norm, MAX_IMPULSE_LEN};
-pub use poles::{max_pole_radius, poles, zeros, Root};
 pub use report::{analyze, default_band, Deviation, QuantReport, SectionReport};
 pub use verdict::{limits, Assessment, Verdict};

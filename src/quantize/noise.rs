@@ -2,7 +2,7 @@
 
 use super::coefs::FixedCascade;
 use super::format::Rounding;
-use super::norms::l2_norm;
+use crate::sections::norms::l2_norm;
 use crate::error::Result;
 use crate::sections::Sos;
 use num_complex::Complex64;

@@ -5,7 +5,7 @@ use super::format::Structure;
 use super::headroom::{headroom, HeadroomReport};
 use super::limit_cycle::{find_limit_cycle, LimitCycleSearch};
 use super::noise::{rounding_noise, NoiseReport};
-use super::poles::{poles, zeros, Root};
+use crate::sections::{poles, zeros, Root};
 use super::verdict::{limits, Assessment, Verdict};
 use crate::error::{Error, Result};
 use crate::sections::{Cascade, Sos};

@@ -3,8 +3,8 @@
 //! analog-versus-digital error (and where bilinear cramping passes 0.5 dB), phase and
 //! group delay at the stage frequencies; warnings.
 //!
-//! A digital pole p is described by its equivalent analog pole s = rate·ln(p):
-//! frequency |s|/2π and Q = |s| / (−2·Re s) (the impulse-invariant correspondence).
+//! Digital poles are described by [`Root`]: radius, angle as a frequency, and the Q of
+//! the equivalent analog pole s = rate·ln(p).
 
 use super::format::{fmt_db, fmt_hz};
 use crate::analog::AnalogSection;
@@ -12,7 +12,7 @@ use crate::analysis::response::{
     analog_point, crossings, digital_point, largest_deviation, unwrap_degrees,
 };
 use crate::pipeline::Port;
-use crate::sections::Sos;
+use crate::sections::{poles, Root};
 use num_complex::Complex64;
 use serde::Serialize;
 use std::collections::BTreeMap;
@@ -94,18 +94,7 @@ pub struct SectionJson {
     /// 1, a1, a2.
     pub a: [f64; 3],
     /// The section's poles.
-    pub poles: Vec<PoleReport>,
-}
-
-/// A digital pole described for a developer.
-#[derive(Debug, Clone, Serialize)]
-pub struct PoleReport {
-    /// |p|.
-    pub radius: f64,
-    /// Equivalent frequency, Hz.
-    pub hz: f64,
-    /// Equivalent Q (None for a real pole).
-    pub q: Option<f64>,
+    pub poles: Vec<Root>,
 }
 
 /// Overall response facts.
@@ -168,23 +157,6 @@ fn factor(s: &AnalogSection) -> FactorReport {
     }
 }
 
-/// A digital pole's radius and equivalent analog frequency and Q.
-pub fn describe_pole(p: Complex64, rate: f64) -> PoleReport {
-    let s = p.ln() * rate;
-    let q = (p.im.abs() > 0.0).then(|| s.norm() / (-2.0 * s.re));
-    PoleReport { radius: p.norm(), hz: s.norm() / (2.0 * PI), q }
-}
-
-/// The poles of one section.
-pub fn section_poles(s: &Sos) -> Vec<Complex64> {
-    let (a1, a2) = (s.a[0], s.a[1]);
-    if a2 == 0.0 {
-        return if a1 == 0.0 { vec![] } else { vec![Complex64::new(-a1, 0.0)] };
-    }
-    let disc = Complex64::new(a1 * a1 - 4.0 * a2, 0.0).sqrt();
-    vec![(-a1 + disc) / 2.0, (-a1 - disc) / 2.0]
-}
-
 /// Builds the report for a port.
 pub fn build(port: &Port) -> InspectReport {
     let rate = port.rate;
@@ -211,10 +183,10 @@ pub fn build(port: &Port) -> InspectReport {
         .map(|s| SectionJson {
             b: s.b,
             a: [1.0, s.a[0], s.a[1]],
-            poles: section_poles(s)
+            poles: poles(s)
                 .into_iter()
                 .filter(|p| p.im >= 0.0)
-                .map(|p| describe_pole(p, rate))
+                .map(|p| Root::new(p, rate))
                 .collect(),
         })
         .collect();
@@ -291,12 +263,12 @@ pub fn build(port: &Port) -> InspectReport {
     }
     for p in port.digital.zpk.poles.iter().filter(|p| p.im >= 0.0) {
         if 1.0 - p.norm() < NEAR_UNIT_CIRCLE {
-            let d = describe_pole(*p, rate);
+            let d = Root::new(*p, rate);
             warnings.push(format!(
                 "pole at radius {:.8} ({}) is within {NEAR_UNIT_CIRCLE} of the unit circle: \
                  coefficients need many bits; consider a lower rate for this section",
                 d.radius,
-                fmt_hz(d.hz)
+                fmt_hz(d.freq_hz)
             ));
         }
     }
@@ -408,7 +380,7 @@ impl InspectReport {
             );
             for p in &s.poles {
                 let q = p.q.map(|q| format!("  Q {q:.4}")).unwrap_or_default();
-                let _ = writeln!(t, "      pole radius {:.8}  f {}{q}", p.radius, fmt_hz(p.hz));
+                let _ = writeln!(t, "      pole radius {:.8}  f {}{q}", p.radius, fmt_hz(p.freq_hz));
             }
         }
         let r = &self.response;

@@ -18,9 +18,11 @@
 
 pub mod norms;
 mod pairing;
+pub mod roots;
 mod scaling;
 mod sos;
 
+pub use roots::{max_pole_radius, poles, zeros, Root};
 pub use sos::{Cascade, Sos};
 
 use crate::design::Scaling;

@@ -1,6 +1,6 @@
 //! Poles and zeros of one section, and their description as radius, frequency and Q.
 
-use crate::sections::Sos;
+use super::sos::Sos;
 use num_complex::Complex64;
 use serde::Serialize;
 use std::f64::consts::PI;
