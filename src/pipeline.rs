@@ -7,6 +7,7 @@ use crate::analog::{self, AnalogModel};
 use crate::design::{Design, KnobPositions};
 use crate::discretize::{self, Discretized};
 use crate::error::{Error, Result};
+use crate::quantize::{quantize, round_to_f32, FixedCascade, NumberFormat, Structure};
 use crate::sections::{self, Cascade};
 
 /// A design carried through to float sections at one rate and knob setting.
@@ -68,4 +69,40 @@ impl Port {
         w.extend(self.digital.warnings.iter().cloned());
         w
     }
+}
+
+/// A cascade as the target's arithmetic holds it.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Realized {
+    /// Float64: the cascade as designed.
+    F64(Cascade),
+    /// Float32: every coefficient rounded to f32.
+    F32(Cascade),
+    /// Fixed point: the stored integers.
+    Fixed(FixedCascade),
+}
+
+impl Realized {
+    /// The effective float coefficients of what the target stores.
+    ///
+    /// # Errors
+    /// A fixed cascade that fails its own validation (an internal inconsistency).
+    pub fn effective(&self, rate: f64) -> Result<Cascade> {
+        match self {
+            Realized::F64(c) | Realized::F32(c) => Ok(c.clone()),
+            Realized::Fixed(f) => f.to_cascade(rate),
+        }
+    }
+}
+
+/// Puts a cascade into a number format and structure.
+///
+/// # Errors
+/// A fixed format that cannot hold the coefficients.
+pub fn realize(cascade: &Cascade, number: NumberFormat, structure: Structure) -> Result<Realized> {
+    Ok(match number {
+        NumberFormat::F64 => Realized::F64(cascade.clone()),
+        NumberFormat::F32 => Realized::F32(round_to_f32(cascade)),
+        NumberFormat::Fixed(format) => Realized::Fixed(quantize(cascade, &format, structure)?),
+    })
 }

@@ -1,8 +1,8 @@
 //! Coefficient quantization: float sections to the integers a target stores.
 
 use super::format::{FixedFormat, Structure};
-use crate::sections::poles;
 use crate::error::{Error, Result};
+use crate::sections::poles;
 use crate::sections::{Cascade, Sos};
 use serde::Serialize;
 
@@ -151,10 +151,11 @@ pub fn quantize(
     let bits = format.coef_bits;
     let mut best = Vec::with_capacity(cascade.sections.len());
     for (k, s) in cascade.sections.iter().enumerate() {
+        let n = k + 1;
         let c = [s.b[0], s.b[1], s.b[2], s.a[0], s.a[1]];
         if let Some(i) = c.iter().position(|v| !v.is_finite()) {
             return Err(Error::numeric(format!(
-                "section {k}: coefficient {} = {} is not finite",
+                "section {n}: coefficient {} = {} is not finite",
                 COEF_NAMES[i], c[i]
             )));
         }
@@ -165,7 +166,7 @@ pub fn quantize(
                 .max_by(|x, y| x.1.abs().total_cmp(&y.1.abs()))
                 .map_or((0, 0.0), |(i, v)| (i, *v));
             Error::numeric(format!(
-                "section {k}: coefficient {} = {v} does not fit {bits}-bit coefficients \
+                "section {n}: coefficient {} = {v} does not fit {bits}-bit coefficients \
                  even as an integer",
                 COEF_NAMES[i]
             ))
@@ -192,7 +193,8 @@ pub fn quantize(
             let shift = frac.saturating_sub(f);
             if shift > 0 {
                 notes.push(format!(
-                    "section {k}: shift {shift} (its coefficients need Q{}.{f})",
+                    "section {}: shift {shift} (its coefficients need Q{}.{f})",
+                    k + 1,
                     bits - f
                 ));
             }

@@ -2,8 +2,8 @@
 
 use super::coefs::FixedCascade;
 use super::format::Structure;
-use crate::sections::norms::{l1_norm, linf_norm};
 use crate::error::Result;
+use crate::sections::norms::{l1_norm, linf_norm};
 use crate::sections::Sos;
 use serde::Serialize;
 

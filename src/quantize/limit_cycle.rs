@@ -1,8 +1,8 @@
 //! Zero-input limit cycles: run the bit-exact engine from many seeded states.
 
 use super::coefs::FixedCascade;
-use crate::sections::max_pole_radius;
 use crate::error::Result;
+use crate::sections::max_pole_radius;
 use crate::simulate::{Engine, FixedEngine};
 use serde::Serialize;
 

@@ -2,8 +2,8 @@
 
 use super::coefs::FixedCascade;
 use super::format::Rounding;
-use crate::sections::norms::l2_norm;
 use crate::error::Result;
+use crate::sections::norms::l2_norm;
 use crate::sections::Sos;
 use num_complex::Complex64;
 use serde::Serialize;

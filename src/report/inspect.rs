@@ -6,12 +6,15 @@
 //! Digital poles are described by [`Root`]: radius, angle as a frequency, and the Q of
 //! the equivalent analog pole s = rate·ln(p).
 
+use super::fixed::{FixedReport, Float32Report};
 use super::format::{fmt_db, fmt_hz};
 use crate::analog::AnalogSection;
 use crate::analysis::response::{
     analog_point, crossings, digital_point, largest_deviation, unwrap_degrees,
 };
-use crate::pipeline::Port;
+use crate::error::Result;
+use crate::pipeline::{realize, Port};
+use crate::quantize::{default_band, FixedFormat, NumberFormat, Verdict};
 use crate::sections::{poles, Root};
 use num_complex::Complex64;
 use serde::Serialize;
@@ -43,6 +46,14 @@ pub struct InspectReport {
     pub sections: Vec<SectionJson>,
     /// Overall response facts.
     pub response: ResponseReport,
+    /// Number format and structure of the target, e.g. `q15 df1`.
+    pub target: String,
+    /// What fixed-point arithmetic does (fixed targets only).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub fixed: Option<FixedReport>,
+    /// What f32 coefficients do (f32 targets only).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub f32: Option<Float32Report>,
     /// Doubtful but usable findings.
     pub warnings: Vec<String>,
 }
@@ -157,8 +168,16 @@ fn factor(s: &AnalogSection) -> FactorReport {
     }
 }
 
-/// Builds the report for a port.
-pub fn build(port: &Port) -> InspectReport {
+/// Builds the report for a port in a number format; `band` (Hz) bounds the
+/// quantization comparison (default 20 Hz to min(20 kHz, 0.45·rate)).
+///
+/// # Errors
+/// A format that cannot hold the coefficients, or a band outside (0, rate/2).
+pub fn build(port: &Port, number: NumberFormat, band: Option<(f64, f64)>) -> Result<InspectReport> {
+    let structure = port.design.target.structure;
+    let realized = realize(&port.cascade, number, structure)?;
+    let band = band.unwrap_or_else(|| default_band(port.rate));
+    let (fixed, f32) = super::fixed::build(&port.cascade, &realized, band)?;
     let rate = port.rate;
     let nyq = rate / 2.0;
     let top = (0.499 * rate).min(0.5 * rate);
@@ -272,7 +291,18 @@ pub fn build(port: &Port) -> InspectReport {
             ));
         }
     }
-    InspectReport {
+    if let Some(f) = &fixed {
+        if !f.analysis.stable {
+            warnings.push(
+                "the quantized design is UNSTABLE: export and audio runs refuse it unless --force"
+                    .into(),
+            );
+        } else if f.analysis.assessment.verdict == Verdict::DoesNotFit {
+            warnings
+                .push("the design does not fit the fixed-point format (see the verdict)".into());
+        }
+    }
+    Ok(InspectReport {
         name: port.design.name.clone(),
         file: port.design.file.clone(),
         rate,
@@ -287,7 +317,22 @@ pub fn build(port: &Port) -> InspectReport {
             bands,
             cramping_from_hz,
         },
+        target: format!("{} {}", number_name(number), structure),
+        fixed,
+        f32,
         warnings,
+    })
+}
+
+/// A number format's short name: `f64`, `f32`, `q15`, `q23`, `q31` or `fixed`.
+pub fn number_name(number: NumberFormat) -> &'static str {
+    match number {
+        NumberFormat::F64 => "f64",
+        NumberFormat::F32 => "f32",
+        NumberFormat::Fixed(f) if f == FixedFormat::q15() => "q15",
+        NumberFormat::Fixed(f) if f == FixedFormat::q23() => "q23",
+        NumberFormat::Fixed(f) if f == FixedFormat::q31() => "q31",
+        NumberFormat::Fixed(_) => "fixed",
     }
 }
 
@@ -319,7 +364,7 @@ impl InspectReport {
             format!("{} ({})", self.name, self.file)
         };
         let _ = writeln!(t, "{title}");
-        let _ = writeln!(t, "rate {} Hz", self.rate);
+        let _ = writeln!(t, "rate {} Hz, target {}", self.rate, self.target);
         if !self.knobs.is_empty() {
             let k: Vec<String> = self.knobs.iter().map(|(n, v)| format!("{n} = {v:.3}")).collect();
             let _ = writeln!(t, "knobs: {}", k.join(", "));
@@ -380,7 +425,8 @@ impl InspectReport {
             );
             for p in &s.poles {
                 let q = p.q.map(|q| format!("  Q {q:.4}")).unwrap_or_default();
-                let _ = writeln!(t, "      pole radius {:.8}  f {}{q}", p.radius, fmt_hz(p.freq_hz));
+                let _ =
+                    writeln!(t, "      pole radius {:.8}  f {}{q}", p.radius, fmt_hz(p.freq_hz));
             }
         }
         let r = &self.response;
@@ -431,6 +477,17 @@ impl InspectReport {
                     fmt_hz(0.499 * self.rate)
                 );
             }
+        }
+        if let Some(f) = &self.fixed {
+            t.push_str(&f.to_text());
+        }
+        if let Some(f) = &self.f32 {
+            let _ = writeln!(
+                t,
+                "\nf32 coefficients: float64 and float32 differ by up to {:.2e} dB at {}",
+                f.max_deviation_db,
+                fmt_hz(f.at_hz)
+            );
         }
         if !self.warnings.is_empty() {
             let _ = writeln!(t);

@@ -4,6 +4,7 @@
 //! follow the contract in design-file.md (`rate`, `knobs`, `analog`, `sections`,
 //! `fixed`, `warnings`; more keys may be added) and a plain-text rendering.
 
+pub mod fixed;
 mod format;
 pub mod inspect;
 
