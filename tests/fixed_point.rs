@@ -4,9 +4,10 @@ use proptest::prelude::*;
 use serde_json::Value;
 use std::f64::consts::PI;
 use tonewright::quantize::{
-    analyze, default_band, find_limit_cycle, l1_norm, l2_norm, quantize, rounding_noise,
-    FixedCascade, FixedFormat, Overflow, Rounding, Structure, Verdict,
+    analyze, default_band, find_limit_cycle, quantize, rounding_noise, FixedCascade, FixedFormat,
+    Overflow, Rounding, Structure, Verdict,
 };
+use tonewright::sections::norms::{l1_norm, l2_norm};
 use tonewright::sections::{Cascade, Sos};
 use tonewright::simulate::{Engine, FixedEngine, FloatEngine, SampleScale};
 

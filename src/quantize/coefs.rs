@@ -267,7 +267,7 @@ mod tests {
         .unwrap_err();
         assert_eq!(
             err.to_string(),
-            "section 0: coefficient b0 = 40000 does not fit 16-bit coefficients even as an \
+            "section 1: coefficient b0 = 40000 does not fit 16-bit coefficients even as an \
              integer"
         );
     }
