@@ -14,6 +14,7 @@
 
 pub mod analog;
 pub mod analysis;
+pub mod apply;
 pub mod atomic_file;
 pub mod audio;
 pub mod cli;

@@ -121,6 +121,53 @@ pub fn snr_db(signal: &[f64], reference: &[f64]) -> Result<f64> {
     Ok(10.0 * (power / noise).log10())
 }
 
+/// A streaming Hann-windowed Goertzel detector for one frequency over a block of
+/// known length, fed sample by sample (reference 1).
+#[derive(Debug, Clone)]
+pub struct ToneMeter {
+    coeff: f64,
+    len: usize,
+    seen: usize,
+    s1: f64,
+    s2: f64,
+    window_sum: f64,
+}
+
+impl ToneMeter {
+    /// A detector for `freq_hz` at `rate_hz` over `len` samples.
+    pub fn new(rate_hz: f64, freq_hz: f64, len: usize) -> Self {
+        let coeff = 2.0 * (2.0 * PI * freq_hz / rate_hz).cos();
+        ToneMeter { coeff, len, seen: 0, s1: 0.0, s2: 0.0, window_sum: 0.0 }
+    }
+
+    /// Feeds samples; those beyond the stated length are ignored.
+    pub fn add(&mut self, mono: impl IntoIterator<Item = f64>) {
+        for x in mono {
+            if self.seen >= self.len {
+                return;
+            }
+            // Periodic Hann window over the block: exactly N/2 coherent gain.
+            let w = 0.5 - 0.5 * (2.0 * PI * self.seen as f64 / self.len as f64).cos();
+            self.window_sum += w;
+            let s0 = x * w + self.coeff * self.s1 - self.s2;
+            self.s2 = self.s1;
+            self.s1 = s0;
+            self.seen += 1;
+        }
+    }
+
+    /// The amplitude of the sine found (0 before any sample).
+    pub fn amplitude(&self) -> f64 {
+        if self.window_sum == 0.0 {
+            return 0.0;
+        }
+        // |X(ω)|² from the last two states (reference 1).
+        let power =
+            (self.s1 * self.s1 + self.s2 * self.s2 - self.coeff * self.s1 * self.s2).max(0.0);
+        2.0 * power.sqrt() / self.window_sum
+    }
+}
+
 /// The amplitude of the sine at `freq_hz` in a mono block sampled at `rate_hz`
 /// (Hann-windowed Goertzel; 0 for an empty block).
 ///
@@ -133,24 +180,9 @@ pub fn snr_db(signal: &[f64], reference: &[f64]) -> Result<f64> {
 /// assert!((goertzel_amplitude(&x, 48000.0, 1000.0) - 0.25).abs() < 1e-9);
 /// ```
 pub fn goertzel_amplitude(mono: &[f64], rate_hz: f64, freq_hz: f64) -> f64 {
-    let n = mono.len();
-    if n == 0 {
-        return 0.0;
-    }
-    let coeff = 2.0 * (2.0 * PI * freq_hz / rate_hz).cos();
-    let (mut s1, mut s2) = (0.0f64, 0.0f64);
-    let mut window_sum = 0.0;
-    for (i, &x) in mono.iter().enumerate() {
-        // Periodic Hann window over the block: exactly N/2 coherent gain.
-        let w = 0.5 - 0.5 * (2.0 * PI * i as f64 / n as f64).cos();
-        window_sum += w;
-        let s0 = x * w + coeff * s1 - s2;
-        s2 = s1;
-        s1 = s0;
-    }
-    // |X(ω)|² from the last two states (reference 1).
-    let power = (s1 * s1 + s2 * s2 - coeff * s1 * s2).max(0.0);
-    2.0 * power.sqrt() / window_sum
+    let mut meter = ToneMeter::new(rate_hz, freq_hz, mono.len());
+    meter.add(mono.iter().copied());
+    meter.amplitude()
 }
 
 /// How many dB a process lowered the tone at `freq_hz`: its level in `input` minus its

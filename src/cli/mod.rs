@@ -2,6 +2,7 @@
 //! and prints. Errors print as one `error: …` line and map to exit codes (0 ok, 1 a
 //! requested check failed or an internal error, 2 bad input or I/O).
 
+mod apply;
 mod inspect;
 mod signal;
 
@@ -18,6 +19,8 @@ struct Cli {
 
 #[derive(Debug, Subcommand)]
 enum Verb {
+    /// Run a design over WAV recordings in the target's arithmetic (and f64).
+    Apply(apply::Args),
     /// Report the analog model, the digital sections and how they differ.
     Inspect(inspect::Args),
     /// Write a test signal (sine, sweep, noise, impulse, multi-tone, mains hum) as WAV.
@@ -34,6 +37,7 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
         }
     };
     let result = match cli.verb {
+        Verb::Apply(a) => apply::run(a),
         Verb::Inspect(a) => inspect::run(a),
         Verb::Signal(a) => signal::run(a),
     };

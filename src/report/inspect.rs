@@ -324,15 +324,18 @@ pub fn build(port: &Port, number: NumberFormat, band: Option<(f64, f64)>) -> Res
     })
 }
 
-/// A number format's short name: `f64`, `f32`, `q15`, `q23`, `q31` or `fixed`.
-pub fn number_name(number: NumberFormat) -> &'static str {
+/// A number format's short name: `f64`, `f32`, `q15`, `q23`, `q31`, or for a
+/// `[target.fixed]` table `fixed c32/d24/a64` (coefficient, data, accumulator bits).
+pub fn number_name(number: NumberFormat) -> String {
     match number {
-        NumberFormat::F64 => "f64",
-        NumberFormat::F32 => "f32",
-        NumberFormat::Fixed(f) if f == FixedFormat::q15() => "q15",
-        NumberFormat::Fixed(f) if f == FixedFormat::q23() => "q23",
-        NumberFormat::Fixed(f) if f == FixedFormat::q31() => "q31",
-        NumberFormat::Fixed(_) => "fixed",
+        NumberFormat::F64 => "f64".into(),
+        NumberFormat::F32 => "f32".into(),
+        NumberFormat::Fixed(f) if f == FixedFormat::q15() => "q15".into(),
+        NumberFormat::Fixed(f) if f == FixedFormat::q23() => "q23".into(),
+        NumberFormat::Fixed(f) if f == FixedFormat::q31() => "q31".into(),
+        NumberFormat::Fixed(f) => {
+            format!("fixed c{}/d{}/a{}", f.coef_bits, f.data_bits, f.acc_bits)
+        }
     }
 }
 

@@ -22,6 +22,11 @@ impl SampleScale {
         Ok(Self { bits: data_bits })
     }
 
+    /// The word length, bits.
+    pub fn bits(&self) -> u32 {
+        self.bits
+    }
+
     /// Largest sample value, 2^(data_bits−1) − 1.
     pub fn max(&self) -> i32 {
         ((1i64 << (self.bits - 1)) - 1) as i32

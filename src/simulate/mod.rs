@@ -18,10 +18,12 @@
 mod convert;
 mod fixed;
 mod float;
+mod runner;
 
 pub use convert::SampleScale;
 pub use fixed::FixedEngine;
 pub use float::{FloatEngine, FloatSample};
+pub use runner::Runner;
 
 use crate::error::{Error, Result};
 
