@@ -16,6 +16,8 @@ pub mod atomic_file;
 pub mod audio;
 pub mod discretize;
 pub mod error;
+mod markup;
+pub mod plot;
 pub mod sections;
 
 pub use error::{Error, Result};
