@@ -81,6 +81,29 @@ pub const PAGE_FILE: &str = "index.html";
 /// track, a file name is not a plain name in the page's folder (or is `index.html`),
 /// a level offset is not finite or beyond ±200 dB, or a duration is negative or not
 /// finite.
+///
+/// ```
+/// use tonewright::audition::{render_page, AuditionPage, Track};
+/// let track = |label: &str, offset| Track {
+///     label: label.into(),
+///     file_name: format!("{label}.wav"),
+///     level_offset_db: offset,
+///     duration_s: 2.0,
+/// };
+/// let page = AuditionPage {
+///     title: "demo".into(),
+///     summary_lines: vec![],
+///     metrics: vec![],
+///     figures: vec![],
+///     tracks: vec![track("input", 0.0), track("fixed", -6.0)],
+/// };
+/// let html = render_page(&page)?;
+/// // The quieter version's relative gain is 10^(-6/20) = 0.501187 (to 1e-6).
+/// let at = html.find("fixed.wav\" data-gain=\"").unwrap() + 22;
+/// let gain: f64 = html[at..at + 11].parse().unwrap();
+/// assert!((gain - 0.501187).abs() < 1e-6);
+/// # Ok::<(), tonewright::Error>(())
+/// ```
 pub fn render_page(page: &AuditionPage) -> Result<String> {
     check(page)?;
     let max_offset =
@@ -154,18 +177,28 @@ pub fn write_page(dir: &Path, page: &AuditionPage) -> Result<()> {
 }
 
 fn listen_section(h: &mut String, tracks: &[Track], max_offset: f64) {
-    h.push_str("<section id=\"listen\" class=\"card\" data-active=\"0\">\n<div class=\"versions\" role=\"radiogroup\" aria-label=\"version\">\n");
+    h.push_str(
+        "<section id=\"listen\" class=\"card\" data-active=\"0\">\n\
+         <div class=\"versions\" role=\"radiogroup\" aria-label=\"version\">\n",
+    );
     for (i, track) in tracks.iter().enumerate() {
         let key = if i < 9 { format!("{}", i + 1) } else { String::new() };
         h.push_str(&format!(
-            "<button type=\"button\" role=\"radio\" aria-checked=\"{}\"><span class=\"key\">{key}</span>{}<span class=\"level\">{} dB</span></button>\n",
+            "<button type=\"button\" role=\"radio\" aria-checked=\"{}\">\
+             <span class=\"key\">{key}</span>{}<span class=\"level\">{} dB</span></button>\n",
             i == 0,
             escape(&track.label),
             signed_db(track.level_offset_db)
         ));
     }
-    h.push_str("</div>\n<div class=\"transport\">\n<button type=\"button\" id=\"play\" aria-label=\"play\">play</button>\n");
-    h.push_str("<input type=\"range\" id=\"position\" min=\"0\" max=\"1000\" step=\"1\" value=\"0\" aria-label=\"position\">\n");
+    h.push_str(
+        "</div>\n<div class=\"transport\">\n\
+         <button type=\"button\" id=\"play\" aria-label=\"play\">play</button>\n",
+    );
+    h.push_str(
+        "<input type=\"range\" id=\"position\" min=\"0\" max=\"1000\" step=\"1\" value=\"0\" \
+         aria-label=\"position\">\n",
+    );
     h.push_str(&format!(
         "<span id=\"time\">0:00.000 / {}</span>\n</div>\n",
         clock(tracks[0].duration_s)
@@ -231,7 +264,8 @@ fn check(page: &AuditionPage) -> Result<()> {
         let offset = track.level_offset_db;
         if !(offset.is_finite() && offset.abs() <= MAX_LEVEL_OFFSET_DB) {
             return Err(bad(format!(
-                "{place}: level offset {offset} dB must be finite and within ±{MAX_LEVEL_OFFSET_DB} dB"
+                "{place}: level offset {offset} dB must be finite and within \
+                 ±{MAX_LEVEL_OFFSET_DB} dB"
             )));
         }
         if !(track.duration_s.is_finite() && track.duration_s >= 0.0) {

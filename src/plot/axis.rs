@@ -27,6 +27,15 @@ pub struct AxisMap {
 
 impl AxisMap {
     /// The pixel coordinate of data value `v` (not finite for `v <= 0` on a log axis).
+    ///
+    /// ```
+    /// use tonewright::plot::AxisMap;
+    /// let x =
+    ///     AxisMap { data_min: 20.0, data_max: 20000.0, px_from: 0.0, px_to: 900.0, log: true };
+    /// // 632.46 Hz is the geometric middle of three decades.
+    /// assert!((x.data_to_px(632.455532) - 450.0).abs() < 1e-4);
+    /// assert!((x.px_to_data(300.0) - 200.0).abs() < 1e-9);
+    /// ```
     pub fn data_to_px(&self, v: f64) -> f64 {
         let (a, b, v) = if self.log {
             (self.data_min.log10(), self.data_max.log10(), v.log10())

@@ -18,6 +18,35 @@ const CLIP_MARGIN: f64 = 2.0;
 
 /// Draws `fig` as an SVG document of 1600 × 960 px.
 ///
+/// ```
+/// use tonewright::plot::{frequency_svg, AxisMap, Curve, CurveStyle, FrequencyFigure};
+/// let fig = FrequencyFigure {
+///     title: "demo".into(),
+///     y_label: "magnitude (dB)".into(),
+///     curves: vec![Curve {
+///         label: "float".into(),
+///         points: vec![(100.0, -3.0), (1000.0, -20.0)],
+///         style: CurveStyle::Float,
+///     }],
+///     markers: vec![],
+///     x_range: (20.0, 20000.0),
+///     y_range: Some((-40.0, 0.0)),
+/// };
+/// let svg = frequency_svg(&fig)?;
+/// // The first vertex of the curve reads back as (100 Hz, -3 dB) within 0.01 px.
+/// let map = |name: &str| {
+///     let start = svg.find(name).unwrap() + name.len() + 2;
+///     AxisMap::parse(&svg[start..start + svg[start..].find('"').unwrap()]).unwrap()
+/// };
+/// let d = &svg[svg.find(" d=\"M").unwrap() + 5..];
+/// let mut words = d.split(|c| c == ' ' || c == 'L');
+/// let x: f64 = words.next().unwrap().parse().unwrap();
+/// let y: f64 = words.next().unwrap().parse().unwrap();
+/// assert!((map("data-x-map").px_to_data(x) / 100.0 - 1.0).abs() < 1e-4);
+/// assert!((map("data-y-map").px_to_data(y) + 3.0).abs() < 1e-3);
+/// # Ok::<(), tonewright::Error>(())
+/// ```
+///
 /// # Errors
 /// [`Error::Input`] naming the figure when `x_range` is not positive and increasing or
 /// spans more than 12 decades, or when `y_range` (given or fitted) is not finite and
@@ -59,7 +88,8 @@ pub fn frequency_svg(fig: &FrequencyFigure) -> Result<String> {
     svg.text(PLOT.left, 52.0, Anchor::Start, 28.0, style::INK, "title", 0.0, &fig.title);
     svg.clip_path("plot-area", &PLOT.grown(CLIP_MARGIN));
     svg.raw(&format!(
-        "<g class=\"plot\" data-x-map=\"{}\" data-y-map=\"{}\">\n<rect class=\"plot-bg\" {} fill=\"{}\"/>\n",
+        "<g class=\"plot\" data-x-map=\"{}\" data-y-map=\"{}\">\n\
+         <rect class=\"plot-bg\" {} fill=\"{}\"/>\n",
         x_map.to_attribute(),
         y_map.to_attribute(),
         PLOT.attributes(),
@@ -67,7 +97,10 @@ pub fn frequency_svg(fig: &FrequencyFigure) -> Result<String> {
     ));
     grid_and_ticks(&mut svg, &x_map, &y_map);
     markers(&mut svg, fig, &x_map);
-    svg.raw("<g class=\"curves\" clip-path=\"url(#plot-area)\" stroke-linejoin=\"round\" stroke-linecap=\"round\">\n");
+    svg.raw(
+        "<g class=\"curves\" clip-path=\"url(#plot-area)\" stroke-linejoin=\"round\" \
+         stroke-linecap=\"round\">\n",
+    );
     for curve in &fig.curves {
         let points: Vec<Option<(f64, f64)>> = curve
             .points
@@ -169,7 +202,8 @@ fn markers(svg: &mut Svg, fig: &FrequencyFigure, x_map: &AxisMap) {
         }
         let x = x_map.data_to_px(marker.x);
         svg.raw(&format!(
-            "<line class=\"marker\" data-label=\"{}\" x1=\"{}\" y1=\"{}\" x2=\"{}\" y2=\"{}\" {}/>\n",
+            "<line class=\"marker\" data-label=\"{}\" x1=\"{}\" y1=\"{}\" x2=\"{}\" \
+             y2=\"{}\" {}/>\n",
             escape(&marker.label),
             px(x),
             px(PLOT.top),

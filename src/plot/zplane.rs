@@ -33,6 +33,31 @@ struct View {
 ///
 /// Every input draws, so there is no error: non-finite roots are skipped, and roots
 /// beyond the view are counted in a note on the panel.
+///
+/// ```
+/// use num_complex::Complex64;
+/// use tonewright::plot::{zplane_svg, RootSet, RootStyle, ZPlaneFigure};
+/// let pole = Complex64::from_polar(0.999, 0.002);
+/// let fig = ZPlaneFigure {
+///     title: "demo".into(),
+///     sets: vec![RootSet {
+///         label: "ideal".into(),
+///         poles: vec![pole, pole.conj()],
+///         zeros: vec![],
+///         style: RootStyle::Ideal,
+///     }],
+///     zoom_near_one: true,
+/// };
+/// let svg = zplane_svg(&fig);
+/// assert_eq!(svg.matches("class=\"panel\"").count(), 2);
+/// // The zoom panel is narrower than the poles' distance from 1 times ten (within 1e-12).
+/// let zoom = &svg[svg.find("data-panel=\"zoom\"").unwrap()..];
+/// let map = &zoom[zoom.find("data-x-map=\"linear ").unwrap() + 19..];
+/// let number = |w: &str| w.trim_end_matches('"').parse::<f64>().unwrap();
+/// let mut numbers = map.split_whitespace().map(number);
+/// let (lo, hi) = (numbers.next().unwrap(), numbers.next().unwrap());
+/// assert!(hi - lo < 10.0 * (1.0 - pole).norm() + 1e-12);
+/// ```
 pub fn zplane_svg(fig: &ZPlaneFigure) -> String {
     let roots: Vec<Complex64> = fig
         .sets
@@ -110,7 +135,8 @@ fn panel(
     let clip = format!("zplane-{id}");
     svg.clip_path(&clip, &area);
     svg.raw(&format!(
-        "<g class=\"panel\" data-panel=\"{id}\" data-x-map=\"{}\" data-y-map=\"{}\">\n<rect class=\"plot-bg\" {} fill=\"{}\"/>\n",
+        "<g class=\"panel\" data-panel=\"{id}\" data-x-map=\"{}\" data-y-map=\"{}\">\n\
+         <rect class=\"plot-bg\" {} fill=\"{}\"/>\n",
         x_map.to_attribute(),
         y_map.to_attribute(),
         area.attributes(),
@@ -141,19 +167,14 @@ fn panel(
         style::UNIT_CIRCLE.attributes()
     ));
     if let Some(zoom) = zoom_box {
-        let (a, b) = (
-            (zoom.centre.0 - zoom.half, zoom.centre.1 - zoom.half),
-            (zoom.centre.0 + zoom.half, zoom.centre.1 + zoom.half),
-        );
-        let rect = Rect {
-            left: x_map.data_to_px(a.0),
-            top: y_map.data_to_px(b.1),
-            right: x_map.data_to_px(b.0),
-            bottom: y_map.data_to_px(a.1),
-        };
+        // Drawn at least 24 px wide, so a zoom region of a few pixels stays visible
+        // around the marks it holds.
+        let (cx, cy) = (x_map.data_to_px(zoom.centre.0), y_map.data_to_px(zoom.centre.1));
+        let half = (x_map.data_to_px(zoom.centre.0 + zoom.half) - cx).max(12.0);
+        let rect = Rect { left: cx - half, top: cy - half, right: cx + half, bottom: cy + half };
         svg.raw(&format!(
             "<rect class=\"zoom-box\" {} {}/>\n",
-            rect.grown(3.0).attributes(),
+            rect.attributes(),
             style::MARKER.attributes()
         ));
     }
@@ -270,7 +291,8 @@ fn root_set(svg: &mut Svg, set: &RootSet, x_map: &AxisMap, y_map: &AxisMap, area
     let zeros: Vec<String> =
         place(&set.zeros).into_iter().map(|(x, y)| circle_data(x, y, radius)).collect();
     svg.raw(&format!(
-        "<g class=\"roots\" data-label=\"{}\" data-style=\"{}\" {}>\n<path class=\"poles\" d=\"{}\"/>\n<path class=\"zeros\" d=\"{}\"/>\n</g>\n",
+        "<g class=\"roots\" data-label=\"{}\" data-style=\"{}\" {}>\n\
+         <path class=\"poles\" d=\"{}\"/>\n<path class=\"zeros\" d=\"{}\"/>\n</g>\n",
         escape(&set.label),
         root_style_name(set.style),
         stroke.attributes(),
