@@ -6,9 +6,10 @@
 //! to z with prewarping; [`sections::build`] pairs poles and zeros into a float64
 //! [`sections::Cascade`] with Lp-norm gain scaling; [`quantize`] turns it into the
 //! integers a target stores and says what that did; [`simulate`] runs float and
-//! bit-exact fixed-point engines over sample blocks; [`audio`], [`analysis`],
-//! [`report`], `plot` and `export` turn the results into WAV files, reports, figures
-//! and firmware. [`pipeline::port`] runs the front half in one call.
+//! bit-exact fixed-point engines over sample blocks; [`apply`] runs them over WAV
+//! files; [`audio`], [`analysis`], [`report`], [`plot`], `export` and [`audition`]
+//! turn the results into WAV files, reports, figures, firmware and a listening page.
+//! [`pipeline::port`] runs the front half in one call.
 
 #![warn(missing_docs)]
 
@@ -17,11 +18,14 @@ pub mod analysis;
 pub mod apply;
 pub mod atomic_file;
 pub mod audio;
+pub mod audition;
 pub mod cli;
 pub mod design;
 pub mod discretize;
 pub mod error;
+mod markup;
 pub mod pipeline;
+pub mod plot;
 pub mod quantize;
 pub mod report;
 pub mod sections;
