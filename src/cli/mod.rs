@@ -3,7 +3,9 @@
 //! requested check failed or an internal error, 2 bad input or I/O).
 
 mod apply;
+mod audition;
 mod inspect;
+mod plot;
 mod signal;
 
 use clap::{Parser, Subcommand};
@@ -21,8 +23,12 @@ struct Cli {
 enum Verb {
     /// Run a design over WAV recordings in the target's arithmetic (and f64).
     Apply(apply::Args),
+    /// Write an audition folder: input, float, target and residual runs, figures, page.
+    Audition(audition::Args),
     /// Report the analog model, the digital sections and how they differ.
     Inspect(inspect::Args),
+    /// Draw SVG figures: magnitude, phase, delay, stage by stage, z plane, errors.
+    Plot(plot::Args),
     /// Write a test signal (sine, sweep, noise, impulse, multi-tone, mains hum) as WAV.
     Signal(signal::Args),
 }
@@ -38,7 +44,9 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
     };
     let result = match cli.verb {
         Verb::Apply(a) => apply::run(a),
+        Verb::Audition(a) => audition::run(a),
         Verb::Inspect(a) => inspect::run(a),
+        Verb::Plot(a) => plot::run(a),
         Verb::Signal(a) => signal::run(a),
     };
     match result {

@@ -38,6 +38,7 @@
 //!    Transactions on Graphics 3(1), 1984, pp. 1-25.
 
 mod axis;
+pub mod design;
 mod frequency;
 mod style;
 mod svg;

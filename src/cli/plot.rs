@@ -1,0 +1,61 @@
+//! `tonewright plot DESIGN -o DIR [--knob NAME=POS]... [--sweep KNOB]`
+
+use super::inspect::number_override;
+use crate::error::{Error, Result};
+use crate::pipeline::{choose_rate, port};
+use crate::plot::{design::figures, write_svg};
+use std::path::{Path, PathBuf};
+
+/// Arguments of `plot`.
+#[derive(Debug, clap::Args)]
+pub struct Args {
+    /// The design file (TOML).
+    design: PathBuf,
+    /// Folder for the SVG figures (created if missing).
+    #[arg(short = 'o', long = "output")]
+    output: PathBuf,
+    /// Sample rate in Hz (overrides the design's).
+    #[arg(long)]
+    rate: Option<f64>,
+    /// Knob position, NAME=POS (repeatable).
+    #[arg(long = "knob", value_name = "NAME=POS")]
+    knobs: Vec<String>,
+    /// Number format to compare with float64, overriding the design's.
+    #[arg(long)]
+    number: Option<String>,
+    /// Also draw the magnitude over this knob's travel.
+    #[arg(long, value_name = "KNOB")]
+    sweep: Option<String>,
+}
+
+/// Writes figures into `dir`, never over `protect`; returns the paths written.
+///
+/// # Errors
+/// An uncreatable folder or an unwritable file.
+pub fn write_figures(
+    dir: &Path,
+    figs: &[(String, String)],
+    protect: &[&Path],
+) -> Result<Vec<PathBuf>> {
+    std::fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
+    figs.iter()
+        .map(|(name, svg)| {
+            let path = dir.join(name);
+            write_svg(&path, svg, protect)?;
+            Ok(path)
+        })
+        .collect()
+}
+
+/// Runs `plot`.
+pub fn run(args: Args) -> Result<()> {
+    let design = crate::design::load(&args.design)?;
+    let rate = choose_rate(args.rate, &design, None)?;
+    let number = number_override(&design, args.number.as_deref())?;
+    let port = port(design, &args.knobs, rate)?;
+    let figs = figures(&port, number, args.sweep.as_deref())?;
+    for path in write_figures(&args.output, &figs, &[&args.design])? {
+        println!("wrote {}", path.display());
+    }
+    Ok(())
+}
