@@ -7,7 +7,7 @@
 //! [`sections::Cascade`] with Lp-norm gain scaling; [`quantize`] turns it into the
 //! integers a target stores and says what that did; [`simulate`] runs float and
 //! bit-exact fixed-point engines over sample blocks; [`audio`], [`analysis`],
-//! [`report`], `plot` and `export` turn the results into WAV files, reports, figures
+//! [`report`], `plot` and [`export`] turn the results into WAV files, reports, figures
 //! and firmware. [`pipeline::port`] runs the front half in one call.
 
 #![warn(missing_docs)]
@@ -20,6 +20,7 @@ pub mod cli;
 pub mod design;
 pub mod discretize;
 pub mod error;
+pub mod export;
 pub mod pipeline;
 pub mod quantize;
 pub mod report;

@@ -2,6 +2,7 @@
 //! and prints. Errors print as one `error: …` line and map to exit codes (0 ok, 1 a
 //! requested check failed or an internal error, 2 bad input or I/O).
 
+mod export;
 mod inspect;
 mod signal;
 
@@ -18,6 +19,8 @@ struct Cli {
 
 #[derive(Debug, Subcommand)]
 enum Verb {
+    /// Write C or Rust firmware: coefficient tables, kernel, golden vectors.
+    Export(export::Args),
     /// Report the analog model, the digital sections and how they differ.
     Inspect(inspect::Args),
     /// Write a test signal (sine, sweep, noise, impulse, multi-tone, mains hum) as WAV.
@@ -26,7 +29,8 @@ enum Verb {
 
 /// Runs the tool on command-line arguments and returns the process exit code.
 pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
-    let cli = match Cli::try_parse_from(args) {
+    let args: Vec<OsString> = args.into_iter().collect();
+    let cli = match Cli::try_parse_from(&args) {
         Ok(cli) => cli,
         Err(e) => {
             let _ = e.print();
@@ -34,6 +38,7 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
         }
     };
     let result = match cli.verb {
+        Verb::Export(a) => export::run(a, command_line(&args)),
         Verb::Inspect(a) => inspect::run(a),
         Verb::Signal(a) => signal::run(a),
     };
@@ -44,4 +49,21 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
             e.exit_code()
         }
     }
+}
+
+/// The command as typed, program name first as `tonewright` (so generated headers do
+/// not depend on where the binary lives); arguments with spaces or quotes are quoted.
+fn command_line(args: &[OsString]) -> String {
+    let quote = |a: &OsString| {
+        let s = a.to_string_lossy();
+        if s.is_empty() || s.contains(|c: char| c.is_whitespace() || c == '\'' || c == '"') {
+            format!("'{}'", s.replace('\'', "'\\''"))
+        } else {
+            s.into_owned()
+        }
+    };
+    std::iter::once("tonewright".to_string())
+        .chain(args.iter().skip(1).map(quote))
+        .collect::<Vec<_>>()
+        .join(" ")
 }
