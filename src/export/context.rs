@@ -62,7 +62,7 @@ pub struct Context {
 /// The design as the header names it.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct DesignInfo {
-    /// Free-text name.
+    /// Free-text name (the file name when the design has none).
     pub name: String,
     /// File as given on the command line.
     pub file: String,
@@ -443,7 +443,11 @@ impl Context {
             version,
             command: options.command.clone(),
             header,
-            design: DesignInfo { name: d.name.clone(), file: d.file.clone(), hash: d.hash.clone() },
+            design: DesignInfo {
+                name: if d.name.is_empty() { d.file.clone() } else { d.name.clone() },
+                file: d.file.clone(),
+                hash: d.hash.clone(),
+            },
             prefix_upper: prefix.to_ascii_uppercase(),
             prefix,
             files,
@@ -469,7 +473,7 @@ mod tests {
     fn identifiers_are_c_names_made_from_the_file_stem() {
         assert_eq!(identifier("audio-demos/two-knob-tone.toml"), "two_knob_tone");
         assert_eq!(identifier("3band.toml"), "f_3band");
-        assert_eq!(identifier("Ünï.toml"), "__");
+        assert_eq!(identifier("Ünï.toml"), "_n_");
     }
 
     #[test]

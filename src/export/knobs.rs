@@ -120,7 +120,9 @@ pub struct KnobTable {
 fn cascade_at(p: &Port, names: &[String], positions: &[f64]) -> Result<Vec<Sos>> {
     let settings: Vec<String> =
         names.iter().zip(positions).map(|(n, x)| format!("{n}={x}")).collect();
-    Ok(port(p.design.clone(), &settings, p.rate)?.cascade.sections)
+    port(p.design.clone(), &settings, p.rate)
+        .map(|q| q.cascade.sections)
+        .map_err(|e| Error::input(format!("--knobs: at {}: {e}", knob_label(names, positions))))
 }
 
 /// Largest |dB| difference of `approx` from `exact` within [`FLOOR_DB`] of the peak.
