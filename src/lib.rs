@@ -7,7 +7,7 @@
 //! [`sections::Cascade`] with Lp-norm gain scaling; [`quantize`] turns it into the
 //! integers a target stores and says what that did; [`simulate`] runs float and
 //! bit-exact fixed-point engines over sample blocks; [`apply`] runs them over WAV
-//! files; [`audio`], [`analysis`], [`report`], [`plot`], `export` and [`audition`]
+//! files; [`audio`], [`analysis`], [`report`], [`plot`], [`export`] and [`audition`]
 //! turn the results into WAV files, reports, figures, firmware and a listening page.
 //! [`pipeline::port`] runs the front half in one call.
 
@@ -23,6 +23,7 @@ pub mod cli;
 pub mod design;
 pub mod discretize;
 pub mod error;
+pub mod export;
 mod markup;
 pub mod pipeline;
 pub mod plot;

@@ -4,6 +4,7 @@
 
 mod apply;
 mod audition;
+mod export;
 mod inspect;
 mod plot;
 mod signal;
@@ -25,6 +26,8 @@ enum Verb {
     Apply(apply::Args),
     /// Write an audition folder: input, float, target and residual runs, figures, page.
     Audition(audition::Args),
+    /// Write C or Rust firmware: coefficient tables, kernel, golden vectors.
+    Export(export::Args),
     /// Report the analog model, the digital sections and how they differ.
     Inspect(inspect::Args),
     /// Draw SVG figures: magnitude, phase, delay, stage by stage, z plane, errors.
@@ -35,7 +38,8 @@ enum Verb {
 
 /// Runs the tool on command-line arguments and returns the process exit code.
 pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
-    let cli = match Cli::try_parse_from(args) {
+    let args: Vec<OsString> = args.into_iter().collect();
+    let cli = match Cli::try_parse_from(&args) {
         Ok(cli) => cli,
         Err(e) => {
             let _ = e.print();
@@ -45,6 +49,7 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
     let result = match cli.verb {
         Verb::Apply(a) => apply::run(a),
         Verb::Audition(a) => audition::run(a),
+        Verb::Export(a) => export::run(a, command_line(&args)),
         Verb::Inspect(a) => inspect::run(a),
         Verb::Plot(a) => plot::run(a),
         Verb::Signal(a) => signal::run(a),
@@ -56,4 +61,21 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
             e.exit_code()
         }
     }
+}
+
+/// The command as typed, program name first as `tonewright` (so generated headers do
+/// not depend on where the binary lives); arguments with spaces or quotes are quoted.
+fn command_line(args: &[OsString]) -> String {
+    let quote = |a: &OsString| {
+        let s = a.to_string_lossy();
+        if s.is_empty() || s.contains(|c: char| c.is_whitespace() || c == '\'' || c == '"') {
+            format!("'{}'", s.replace('\'', "'\\''"))
+        } else {
+            s.into_owned()
+        }
+    };
+    std::iter::once("tonewright".to_string())
+        .chain(args.iter().skip(1).map(quote))
+        .collect::<Vec<_>>()
+        .join(" ")
 }
