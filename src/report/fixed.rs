@@ -66,8 +66,8 @@ fn verdict_text(v: Verdict) -> &'static str {
 }
 
 impl FixedReport {
-    /// The report as text.
-    pub fn to_text(&self) -> String {
+    /// The report as text; `rate` turns pole positions into frequencies.
+    pub fn to_text(&self, rate: f64) -> String {
         let mut t = String::new();
         let f = &self.cascade.format;
         let a = &self.analysis;
@@ -107,11 +107,11 @@ impl FixedReport {
                 let qf = |r: Option<f64>| r.map(|q| format!(" Q {q:.3}")).unwrap_or_default();
                 let _ = writeln!(
                     t,
-                    "      pole {} r {:.8}{} -> {} r {:.8}{}",
-                    fmt_hz(ideal.freq_hz),
+                    "      pole f0 {} r {:.8}{} -> f0 {} r {:.8}{}",
+                    fmt_hz(ideal.natural_hz(rate)),
                     ideal.radius,
                     qf(ideal.q),
-                    fmt_hz(quant.freq_hz),
+                    fmt_hz(quant.natural_hz(rate)),
                     quant.radius,
                     qf(quant.q)
                 );

@@ -429,7 +429,7 @@ impl InspectReport {
             for p in &s.poles {
                 let q = p.q.map(|q| format!("  Q {q:.4}")).unwrap_or_default();
                 let _ =
-                    writeln!(t, "      pole radius {:.8}  f {}{q}", p.radius, fmt_hz(p.freq_hz));
+                    writeln!(t, "      pole radius {:.8}  f0 {}{q}", p.radius, fmt_hz(p.natural_hz(self.rate)));
             }
         }
         let r = &self.response;
@@ -482,7 +482,7 @@ impl InspectReport {
             }
         }
         if let Some(f) = &self.fixed {
-            t.push_str(&f.to_text());
+            t.push_str(&f.to_text(self.rate));
         }
         if let Some(f) = &self.f32 {
             let _ = writeln!(

@@ -32,6 +32,19 @@ impl Root {
     }
 }
 
+impl Root {
+    /// Natural frequency of the equivalent analog root s = rate·ln z, Hz: the corner of
+    /// a real pole, close to `freq_hz` for a sharp complex pair (0 for z = 0).
+    pub fn natural_hz(&self, rate: f64) -> f64 {
+        let z = Complex64::new(self.re, self.im);
+        if z.norm() == 0.0 {
+            0.0
+        } else {
+            (z.ln() * rate).norm() / (2.0 * PI)
+        }
+    }
+}
+
 /// Roots of c0·z² + c1·z + c2, leaving out roots at the origin (c2 = 0) and at
 /// infinity (c0 = 0). Conjugate pairs are exactly conjugate.
 fn quadratic_roots(c0: f64, c1: f64, c2: f64) -> Vec<Complex64> {
