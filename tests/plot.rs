@@ -3,6 +3,10 @@
 
 use num_complex::Complex64;
 use std::path::PathBuf;
+
+#[path = "common/svg.rs"]
+mod svg;
+use svg::{curve_paths, plot_maps, subpaths};
 use tonewright::plot::{
     frequency_svg, write_svg, zplane_svg, AxisMap, Curve, CurveStyle, FrequencyFigure, Marker,
     RootSet, RootStyle, ZPlaneFigure,
@@ -39,37 +43,6 @@ fn magnitude_figure() -> FrequencyFigure {
         x_range: (20.0, 20000.0),
         y_range: Some((-60.0, 10.0)),
     }
-}
-
-/// The vertices of path data written with `M` and `L` commands, split into subpaths.
-fn subpaths(d: &str) -> Vec<Vec<(f64, f64)>> {
-    let mut out: Vec<Vec<(f64, f64)>> = Vec::new();
-    let mut words = d.split_whitespace();
-    while let Some(word) = words.next() {
-        let (command, x) = word.split_at(1);
-        let y = words.next().expect("y after x");
-        let point = (x.parse().unwrap(), y.parse().unwrap());
-        match command {
-            "M" => out.push(vec![point]),
-            "L" => out.last_mut().expect("L after M").push(point),
-            other => panic!("unexpected path command {other}"),
-        }
-    }
-    out
-}
-
-fn plot_maps(doc: &roxmltree::Document) -> (AxisMap, AxisMap) {
-    let plot = doc.descendants().find(|n| n.attribute("class") == Some("plot")).unwrap();
-    (
-        AxisMap::parse(plot.attribute("data-x-map").unwrap()).unwrap(),
-        AxisMap::parse(plot.attribute("data-y-map").unwrap()).unwrap(),
-    )
-}
-
-fn curve_paths<'a>(doc: &'a roxmltree::Document) -> Vec<roxmltree::Node<'a, 'a>> {
-    doc.descendants()
-        .filter(|n| n.has_tag_name("path") && n.attribute("class") == Some("curve"))
-        .collect()
 }
 
 #[test]

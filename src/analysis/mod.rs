@@ -3,4 +3,5 @@
 //! In: analog and digital models. Out: plain numbers and point lists for reports,
 //! plots and checks. Nothing here changes a model.
 
+pub mod measure;
 pub mod response;

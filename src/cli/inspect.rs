@@ -23,6 +23,9 @@ pub struct Args {
     /// Band for the float-versus-quantized comparison, LO:HI in Hz.
     #[arg(long, value_name = "LO:HI")]
     band: Option<String>,
+    /// Also measure the response through the float64 and target engines (stepped sines).
+    #[arg(long)]
+    measure: bool,
     /// Print JSON instead of text.
     #[arg(long)]
     json: bool,
@@ -62,15 +65,18 @@ pub fn run(args: Args) -> Result<()> {
     let number = number_override(&design, args.number.as_deref())?;
     let band = args.band.as_deref().map(parse_band).transpose()?;
     let port = port(design, &args.knobs, rate)?;
-    let report = inspect::build(&port, number, band)?;
+    let mut report = inspect::build(&port, number, band)?;
+    if args.measure {
+        report.measured = Some(inspect::measured(&port, number)?);
+    }
     if args.json {
         let text =
             serde_json::to_string_pretty(&report).map_err(|e| Error::Internal(e.to_string()))?;
         println!("{text}");
-    } else {
         for w in &report.warnings {
             eprintln!("warning: {w}");
         }
+    } else {
         print!("{}", report.to_text());
     }
     Ok(())

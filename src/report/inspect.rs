@@ -9,6 +9,7 @@
 use super::fixed::{FixedReport, Float32Report};
 use super::format::{fmt_db, fmt_hz};
 use crate::analog::AnalogSection;
+use crate::analysis::measure::{measure, MeasuredPoint};
 use crate::analysis::response::{
     analog_point, crossings, digital_point, largest_deviation, unwrap_degrees,
 };
@@ -54,8 +55,44 @@ pub struct InspectReport {
     /// What f32 coefficients do (f32 targets only).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub f32: Option<Float32Report>,
+    /// Stepped-sine measurements through the engines (with `--measure`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub measured: Option<Measured>,
     /// Doubtful but usable findings.
     pub warnings: Vec<String>,
+}
+
+/// The response measured through the float64 engine and the target's engine.
+#[derive(Debug, Clone, Serialize)]
+pub struct Measured {
+    /// Through the float64 engine.
+    pub float64: Vec<MeasuredPoint>,
+    /// Through the target's engine.
+    pub target: Vec<MeasuredPoint>,
+    /// Largest |measured − predicted| over the points above the noise, dB.
+    pub largest_difference_db: f64,
+}
+
+/// Points measured by `inspect --measure`.
+pub const MEASURE_POINTS: usize = 31;
+
+/// Measures a port's float64 and target engines with stepped sines.
+///
+/// # Errors
+/// A format that cannot hold the coefficients.
+pub fn measured(port: &Port, number: NumberFormat) -> Result<Measured> {
+    let structure = port.design.target.structure;
+    let run =
+        |n| measure(&realize(&port.cascade, n, structure)?, structure, port.rate, MEASURE_POINTS);
+    let float64 = run(NumberFormat::F64)?;
+    let target = run(number)?;
+    let largest_difference_db = float64
+        .iter()
+        .chain(&target)
+        .filter(|p| p.above_noise)
+        .map(|p| (p.measured_db - p.predicted_db).abs())
+        .fold(0.0, f64::max);
+    Ok(Measured { float64, target, largest_difference_db })
 }
 
 /// Zeros, poles and gain as plain arrays.
@@ -320,6 +357,7 @@ pub fn build(port: &Port, number: NumberFormat, band: Option<(f64, f64)>) -> Res
         target: format!("{} {}", number_name(number), structure),
         fixed,
         f32,
+        measured: None,
         warnings,
     })
 }
@@ -428,8 +466,12 @@ impl InspectReport {
             );
             for p in &s.poles {
                 let q = p.q.map(|q| format!("  Q {q:.4}")).unwrap_or_default();
-                let _ =
-                    writeln!(t, "      pole radius {:.8}  f0 {}{q}", p.radius, fmt_hz(p.natural_hz(self.rate)));
+                let _ = writeln!(
+                    t,
+                    "      pole radius {:.8}  f0 {}{q}",
+                    p.radius,
+                    fmt_hz(p.natural_hz(self.rate))
+                );
             }
         }
         let r = &self.response;
@@ -490,6 +532,26 @@ impl InspectReport {
                 "\nf32 coefficients: float64 and float32 differ by up to {:.2e} dB at {}",
                 f.max_deviation_db,
                 fmt_hz(f.at_hz)
+            );
+        }
+        if let Some(m) = &self.measured {
+            let _ =
+                writeln!(t, "\nmeasured with stepped sines (dB)     predicted  float64    target");
+            for (f, q) in m.float64.iter().zip(&m.target) {
+                let mark = if q.above_noise { "" } else { "  (below noise)" };
+                let _ = writeln!(
+                    t,
+                    "  {:>12}                      {:>9.3}  {:>9.3}  {:>9.3}{mark}",
+                    fmt_hz(f.hz),
+                    q.predicted_db,
+                    f.measured_db,
+                    q.measured_db
+                );
+            }
+            let _ = writeln!(
+                t,
+                "  largest |measured - predicted| above the noise: {:.4} dB",
+                m.largest_difference_db
             );
         }
         if !self.warnings.is_empty() {
