@@ -6,8 +6,13 @@ use crate::sections::max_pole_radius;
 use crate::simulate::{Engine, FixedEngine};
 use serde::Serialize;
 
-/// Seeded initial states tried by [`find_limit_cycle`].
+/// Seeded initial states tried by [`find_limit_cycle`] when the settling run is short.
 pub const LIMIT_CYCLE_SEEDS: usize = 48;
+/// Fewest seeds tried, however long the settling run.
+pub const MIN_LIMIT_CYCLE_SEEDS: usize = 8;
+/// Section-samples of settling the search may spend before it tries fewer seeds
+/// (keeps `inspect` interactive on slow-decaying, many-section designs).
+const SETTLE_BUDGET: usize = 4 << 20;
 /// The longest period [`find_limit_cycle`] recognises, in samples.
 pub const MAX_PERIOD: usize = 4096;
 
@@ -48,7 +53,9 @@ fn uniform(seed: &mut u64, m: i64) -> i64 {
     (splitmix(seed) % (2 * m as u64 + 1)) as i64 - m
 }
 
-/// Searches for zero-input limit cycles from [`LIMIT_CYCLE_SEEDS`] seeded states.
+/// Searches for zero-input limit cycles from up to [`LIMIT_CYCLE_SEEDS`] seeded states
+/// (fewer, down to [`MIN_LIMIT_CYCLE_SEEDS`], when the settling run is long; the report
+/// says how many).
 ///
 /// Each seed sets every state of every section at random, with magnitudes from a few
 /// LSB up to a quarter of full scale (df2t states at accumulator scale), runs the
@@ -65,7 +72,8 @@ pub fn find_limit_cycle(fixed: &FixedCascade) -> Result<LimitCycleSearch> {
     let decay =
         if rho > 0.0 && rho < 1.0 { (bits + 4) as f64 * 2f64.ln() / -rho.ln() } else { 0.0 };
     let settle = (decay.ceil() as usize).clamp(1024, 1 << 20);
-    let channels = LIMIT_CYCLE_SEEDS;
+    let per_seed = settle * fixed.sections.len().max(1);
+    let channels = (SETTLE_BUDGET / per_seed).clamp(MIN_LIMIT_CYCLE_SEEDS, LIMIT_CYCLE_SEEDS);
     let mut engine = FixedEngine::new(fixed, channels)?;
     let mut seed = 0x746f_6e65_7772_6967_u64;
     for ch in 0..channels {
@@ -99,6 +107,16 @@ pub fn find_limit_cycle(fixed: &FixedCascade) -> Result<LimitCycleSearch> {
         block[..n * channels].fill(0);
         engine.process(&mut block[..n * channels])?;
         done += n;
+        // With zero input the all-zero state stays put: once every seed is there, the
+        // rest of the settling run would change nothing.
+        let at_rest = |ch| {
+            engine
+                .channel_state_mut(ch)
+                .is_some_and(|s| s.iter().all(|v| v.iter().all(|&x| x == 0)))
+        };
+        if (0..channels).all(at_rest) {
+            break;
+        }
     }
     let snapshot: Vec<Vec<[i64; 6]>> = (0..channels)
         .map(|ch| engine.channel_state_mut(ch).map(|s| s.to_vec()).unwrap_or_default())

@@ -1,7 +1,8 @@
 //! L1, L2 and L∞ norms of a chain of sections, for gain scaling and noise analysis.
 //!
 //! L1 and L2 sum the impulse response of the chain; the sum runs until the slowest
-//! pole (radius ρ) has decayed to 10^−12 twice over, n = 2·ln(10^−12)/ln ρ samples
+//! pole (radius ρ) has decayed to 10^−12, n = ln(10^−12)/ln ρ samples (the tail left out is
+//! then below 10^−12/(1 − ρ) of the L1 norm)
 //! plus 16 per section (so repeated poles and the FIR part are covered), at most
 //! [`MAX_IMPULSE_LEN`] samples. A chain with a pole on or outside the unit circle has
 //! infinite norms. L∞ is the largest |H(e^{jω})| on a grid of 8192 uniform
@@ -27,7 +28,7 @@ fn impulse_len(sections: &[Sos]) -> Option<usize> {
         return None;
     }
     let fir = 16 * sections.len() + 1;
-    let decay = if rho == 0.0 { 0.0 } else { 2.0 * (1e-12f64).ln() / rho.ln() };
+    let decay = if rho == 0.0 { 0.0 } else { (1e-12f64).ln() / rho.ln() };
     Some((decay.ceil() as usize).saturating_add(fir).min(MAX_IMPULSE_LEN))
 }
 

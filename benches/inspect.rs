@@ -1,0 +1,39 @@
+//! Time of `inspect` on a 40-part circuit: load, nodal analysis, bilinear transform,
+//! sections, quantization analysis and the report, as the verb does them (the issue's
+//! target: under 50 ms). Run: `cargo bench --bench inspect`.
+
+use divan::Bencher;
+use tonewright::design;
+use tonewright::pipeline::port;
+use tonewright::report::inspect;
+
+fn main() {
+    divan::main();
+}
+
+/// An invented 40-part RC ladder (20 sections of varied values) with a q15 target.
+fn ladder_design() -> String {
+    let mut parts = String::new();
+    for k in 0..20 {
+        let (from, to) = (
+            if k == 0 { "in".to_string() } else { format!("n{k}") },
+            if k == 19 { "out".to_string() } else { format!("n{}", k + 1) },
+        );
+        let r = 1.0 + 0.37 * k as f64;
+        let c = 10.0 + 3.1 * k as f64;
+        parts.push_str(&format!("  {{ r = \"{r:.2}k\", nodes = [\"{from}\", \"{to}\"] }},\n"));
+        parts.push_str(&format!("  {{ c = \"{c:.1}n\", nodes = [\"{to}\", \"gnd\"] }},\n"));
+    }
+    format!("[target]\nrate = 48000\nnumber = \"q31\"\n\n[[stage]]\nkind = \"circuit\"\nparts = [\n{parts}]\n")
+}
+
+#[divan::bench(sample_count = 20)]
+fn inspect_40_part_circuit(bencher: Bencher) {
+    let text = ladder_design();
+    bencher.bench(|| {
+        let d = design::parse("ladder.toml", &text, text.as_bytes()).unwrap();
+        let number = d.target.number;
+        let p = port(d, &[], 48000.0).unwrap();
+        inspect::build(&p, number, None).unwrap().to_text()
+    });
+}
