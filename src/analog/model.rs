@@ -4,7 +4,7 @@ use super::factorize::{cancel, factorize, zpk_from_scaled};
 use super::section::AnalogSection;
 use super::zpk::AnalogZpk;
 use super::{circuit, families, parametric, poly, roots};
-use crate::design::knobs::{below_nyquist, positive, track_fraction};
+use crate::design::knobs::{below_nyquist, positive, pot_split};
 use crate::design::{Design, KnobPositions, PartElement, PartSpec, Stage, StageKind, Transfer};
 use crate::error::{Error, Result};
 use num_complex::Complex64;
@@ -222,12 +222,12 @@ fn part(spec: &PartSpec, knobs: &KnobPositions) -> Vec<circuit::Part> {
             one(Element::Amp { gain: *gain, input: x.clone(), output: y.clone() })
         }
         PartElement::Pot { ohms, nodes: [a, w, b], taper, knob } => {
-            let fraction = track_fraction(*taper, knobs.get(knob));
+            let (to_wiper, from_wiper) = pot_split(*ohms, *taper, knobs.get(knob));
             vec![
                 circuit::Part {
                     label: format!("{label} end A to wiper"),
                     element: Element::Resistor {
-                        ohms: ohms * fraction,
+                        ohms: to_wiper,
                         a: a.clone(),
                         b: w.clone(),
                     },
@@ -235,7 +235,7 @@ fn part(spec: &PartSpec, knobs: &KnobPositions) -> Vec<circuit::Part> {
                 circuit::Part {
                     label: format!("{label} wiper to end B"),
                     element: Element::Resistor {
-                        ohms: ohms * (1.0 - fraction),
+                        ohms: from_wiper,
                         a: w.clone(),
                         b: b.clone(),
                     },

@@ -5,7 +5,10 @@
 //! frequencies). A pot's track splits into two resistors: end A to wiper and wiper to
 //! end B; position 0 puts the wiper at end A. The audio ("log") taper used here is
 //! the exponential law fraction(x) = (81^x − 1)/80, which puts 10 % of the track at
-//! mid travel (common practice); `antilog` is its mirror, 1 − fraction(1 − x).
+//! mid travel (common practice); `antilog` is its mirror, 1 − fraction(1 − x). Like a
+//! real track, neither part ever reaches 0 Ω: each keeps at least [`END_RESISTANCE`] of
+//! the total, so a wiper at an end stop still leaves the circuit connected (a volume pot
+//! turned fully down gives a very small H, not a disconnected output).
 
 use super::schema::{Design, Param, ParamValue, Place, Taper};
 use crate::error::{Error, Result};
@@ -67,6 +70,18 @@ impl KnobPositions {
             }
         }
     }
+}
+
+/// The part of a pot's track that remains between the wiper and an end at the end
+/// stop (common practice: real tracks keep a fraction of a percent; 1e-4 is on the
+/// small side of that, so responses away from the stops are unchanged to 1e-4).
+pub const END_RESISTANCE: f64 = 1e-4;
+
+/// The two resistances of a pot of `ohms` at position `x`: end A to wiper and wiper to
+/// end B, each at least [`END_RESISTANCE`] of the total.
+pub fn pot_split(ohms: f64, taper: Taper, x: f64) -> (f64, f64) {
+    let f = track_fraction(taper, x).clamp(END_RESISTANCE, 1.0 - END_RESISTANCE);
+    (ohms * f, ohms * (1.0 - f))
 }
 
 /// The fraction of a pot's track between end A and the wiper at position `x`.
