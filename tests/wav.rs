@@ -4,7 +4,6 @@
 //! and Python's standard `wave` module.
 
 use proptest::prelude::*;
-use std::io::Write;
 use std::path::{Path, PathBuf};
 use tonewright::audio::dither::SplitMix64;
 use tonewright::audio::{SampleFormat, WavReader, WavSpec, WavWriter};
