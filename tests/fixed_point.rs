@@ -11,6 +11,9 @@ use tonewright::sections::norms::{l1_norm, l2_norm};
 use tonewright::sections::{Cascade, Sos};
 use tonewright::simulate::{Engine, FixedEngine, FloatEngine, SampleScale};
 
+#[path = "common/engines.rs"]
+mod reference;
+
 const RATE: f64 = 48000.0;
 
 /// Cookbook low-pass (R. Bristow-Johnson, "Audio EQ Cookbook"): bilinear, prewarped at f0.
@@ -442,6 +445,181 @@ proptest! {
         // Two f64 structures: the same function, rounded differently (1e-12 of full scale).
         for (g, w) in df1.iter().zip(&want) {
             prop_assert!((g - w).abs() < 1e-12, "{} vs {}", g, w);
+        }
+    }
+}
+
+/// Full-scale noise, occasional runs at the extremes (to drive the overflow paths), and
+/// a quiet stretch (to reach the rounding deadband), for `channels` channels.
+fn exacting_input(scale: SampleScale, frames: usize, channels: usize, seed: u64) -> Vec<i32> {
+    noise(frames * channels, seed)
+        .iter()
+        .enumerate()
+        .map(|(i, &v)| match (i / channels / 97) % 5 {
+            0 => {
+                if v < 0.0 {
+                    scale.min()
+                } else {
+                    scale.max()
+                }
+            }
+            1 => scale.to_int(v * 1e-3),
+            _ => scale.to_int(v),
+        })
+        .collect()
+}
+
+/// The engines against the plain reference loops of tests/common/engines.rs, for
+/// `channels` channels processed in blocks of `frames` frames.
+fn fixed_engine_in_blocks(
+    fixed: &FixedCascade,
+    channels: usize,
+    x: &[i32],
+    frames: usize,
+) -> (Vec<i32>, u64) {
+    let mut e = FixedEngine::new(fixed, channels).unwrap();
+    let mut y = x.to_vec();
+    for block in y.chunks_mut(frames * channels) {
+        e.process(block).unwrap();
+    }
+    (y, e.overflows())
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
+
+    #[test]
+    fn fixed_engine_equals_the_literal_arithmetic_for_every_format_block_and_channel_count(
+        sections in cascades(0.999),
+        gain in prop_oneof![Just(1.0), Just(4.0), Just(60.0)],
+        (format, structure) in formats(),
+        acc_bits in prop_oneof![Just(None), Just(Some(64u32))],
+        channels in prop_oneof![Just(1usize), Just(2), Just(3), Just(8)],
+        seed in any::<u64>(),
+    ) {
+        // Gains above 1 drive accumulators and outputs into saturation or wrap; a
+        // 64-bit accumulator on the 16- and 24-bit formats tests the overflow-checked
+        // sums with every rounding, overflow and structure.
+        let sections = sections
+            .into_iter()
+            .map(|s| Sos { b: s.b.map(|b| b * gain), a: s.a })
+            .collect();
+        let c = Cascade { rate: RATE, sections };
+        let format = FixedFormat { acc_bits: acc_bits.unwrap_or(format.acc_bits), ..format };
+        let Ok(fixed) = quantize(&c, &format, structure) else { return Ok(()) };
+        let scale = SampleScale::new(format.data_bits).unwrap();
+        let x = exacting_input(scale, 700, channels, seed);
+        let mut want = x.clone();
+        let want_overflows = reference::fixed_cascade(&fixed, channels, &mut want);
+        for frames in [1usize, 63, 64, 65, 700] {
+            let (got, overflows) = fixed_engine_in_blocks(&fixed, channels, &x, frames);
+            prop_assert_eq!(&got, &want, "{} frames per block", frames);
+            prop_assert_eq!(overflows, want_overflows, "{} frames per block", frames);
+        }
+    }
+
+    #[test]
+    fn float_engines_equal_the_plain_loops_bit_for_bit_on_every_path(
+        sections in prop::collection::vec(
+            (0.05..0.999f64, 0.01..3.1f64, 0.0..1.2f64, 0.0..PI, 0.1..2.0f64)
+                .prop_map(|(pr, pa, zr, za, g)| section((pr, pa), (zr, za), g)),
+            1..11,
+        ),
+        structure in prop_oneof![Just(Structure::Df1), Just(Structure::Df2t)],
+        channels in 1usize..12,
+        seed in any::<u64>(),
+    ) {
+        let c = Cascade { rate: RATE, sections };
+        let x = noise(300 * channels, seed);
+        let mut want = x.clone();
+        reference::float_cascade(&c, structure, channels, &mut want);
+        let x32: Vec<f32> = x.iter().map(|&v| v as f32).collect();
+        let mut want32 = x32.clone();
+        reference::float_cascade(&c, structure, channels, &mut want32);
+        for frames in [1usize, 64, 65, 300] {
+            for baseline in [false, true] {
+                let mut e = FloatEngine::<f64>::new(&c, structure, channels).unwrap();
+                let mut e32 = FloatEngine::<f32>::new(&c, structure, channels).unwrap();
+                if baseline {
+                    e = e.baseline();
+                    e32 = e32.baseline();
+                }
+                let (mut y, mut y32) = (x.clone(), x32.clone());
+                for block in y.chunks_mut(frames * channels) {
+                    e.process(block).unwrap();
+                }
+                for block in y32.chunks_mut(frames * channels) {
+                    e32.process(block).unwrap();
+                }
+                // Bit for bit (NaN-free inputs; to_bits also tells −0.0 from 0.0).
+                let bits = |v: &[f64]| v.iter().map(|f| f.to_bits()).collect::<Vec<_>>();
+                let bits32 = |v: &[f32]| v.iter().map(|f| f.to_bits()).collect::<Vec<_>>();
+                prop_assert_eq!(bits(&y), bits(&want), "f64 {} frames, baseline {}", frames, baseline);
+                prop_assert_eq!(bits32(&y32), bits32(&want32), "f32 {} frames, baseline {}", frames, baseline);
+            }
+        }
+    }
+}
+
+#[test]
+fn q31_sums_that_overflow_64_bits_saturate_and_wrap_exactly() {
+    // Five products of up to 2^62 each pass i64: the overflow-checked sum must fall
+    // back to exact arithmetic. Coefficients near ±1.99 in Q2.30 with full-scale input.
+    let s = Sos { b: [1.99, 1.99, 1.99], a: [-1.99, 0.995] };
+    let c = Cascade { rate: RATE, sections: vec![s, s] };
+    for overflow in [Overflow::Saturate, Overflow::Wrap] {
+        for structure in [Structure::Df1, Structure::Df2t] {
+            let format = FixedFormat { overflow, ..FixedFormat::q31() };
+            let fixed = quantize(&c, &format, structure).unwrap();
+            let scale = SampleScale::new(32).unwrap();
+            let x = exacting_input(scale, 2000, 2, 11);
+            let mut want = x.clone();
+            let want_overflows = reference::fixed_cascade(&fixed, 2, &mut want);
+            assert!(want_overflows > 0, "{overflow:?} {structure}: no overflow exercised");
+            let (got, overflows) = fixed_engine_in_blocks(&fixed, 2, &x, 100);
+            assert_eq!(got, want, "{overflow:?} {structure}");
+            assert_eq!(overflows, want_overflows, "{overflow:?} {structure}");
+        }
+    }
+}
+
+#[test]
+fn gains_one_lsb_either_side_of_one_narrow_exactly_at_the_edges_of_the_data_word() {
+    // Sums within a step of the data word's ends decide between the fast path and an
+    // overflow: every rounding and overflow, every preset and accumulator, inputs at
+    // and next to both extremes, gains of 1 ± a few coefficient LSBs.
+    let bases = [
+        FixedFormat::q15(),
+        FixedFormat { acc_bits: 64, ..FixedFormat::q15() },
+        FixedFormat::q23(),
+        FixedFormat::q31(),
+    ];
+    for base in bases {
+        for rounding in [Rounding::Nearest, Rounding::Floor, Rounding::Even] {
+            for overflow in [Overflow::Saturate, Overflow::Wrap] {
+                for structure in [Structure::Df1, Structure::Df2t] {
+                    let format = FixedFormat { rounding, overflow, ..base };
+                    let scale = SampleScale::new(format.data_bits).unwrap();
+                    let (min, max) = (scale.min(), scale.max());
+                    let x: Vec<i32> =
+                        vec![max, max - 1, min, min + 1, max, min, -1, 0, 1, max, max, min, min];
+                    for k in -3i32..=3 {
+                        let g = 1.0 + f64::from(k) * 2f64.powi(1 - format.coef_bits as i32);
+                        let s = Sos { b: [g, 0.0, 0.0], a: [0.0, 0.0] };
+                        let c = Cascade { rate: RATE, sections: vec![s] };
+                        let fixed = quantize(&c, &format, structure).unwrap();
+                        let mut want = x.clone();
+                        let want_overflows = reference::fixed_cascade(&fixed, 1, &mut want);
+                        // One-frame blocks: a block that overflows anywhere runs
+                        // exactly throughout, so each sample needs its own block here.
+                        for frames in [1, 5] {
+                            let (got, n) = fixed_engine_in_blocks(&fixed, 1, &x, frames);
+                            let what = format!("{format:?} {structure} gain {g} by {frames}");
+                            assert_eq!((&got, n), (&want, want_overflows), "{what}");
+                        }
+                    }
+                }
+            }
         }
     }
 }

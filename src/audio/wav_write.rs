@@ -131,42 +131,38 @@ impl WavWriter {
                 target.display()
             )));
         }
+        if let Some(i) = samples.iter().position(|x| x.is_nan()) {
+            let frame = self.data_bytes / self.spec.block_align() as u64 + (i / channels) as u64;
+            return Err(Error::input(format!(
+                "{}: sample is not a number (nan) at frame {frame}, channel {}",
+                target.display(),
+                i % channels
+            )));
+        }
         self.scratch.clear();
-        for (i, &x) in samples.iter().enumerate() {
-            if x.is_nan() {
-                let frame =
-                    self.data_bytes / self.spec.block_align() as u64 + (i / channels) as u64;
-                return Err(Error::input(format!(
-                    "{}: sample is not a number (nan) at frame {frame}, channel {}",
-                    target.display(),
-                    i % channels
-                )));
+        self.scratch.resize(samples.len() * self.spec.sample.bytes(), 0);
+        let (out, dither, overs) = (&mut self.scratch, self.dither.as_mut(), &mut self.overs);
+        // One loop per codec (and per dither choice): no per-sample branching on format.
+        match (self.codec, dither) {
+            (Codec::U8, None) => encode::<1, 8>(samples, out, overs, || 0.0),
+            (Codec::U8, Some(d)) => encode::<1, 8>(samples, out, overs, || d.next_lsb()),
+            (Codec::I16, None) => encode::<2, 16>(samples, out, overs, || 0.0),
+            (Codec::I16, Some(d)) => encode::<2, 16>(samples, out, overs, || d.next_lsb()),
+            (Codec::I24, None) => encode::<3, 24>(samples, out, overs, || 0.0),
+            (Codec::I24, Some(d)) => encode::<3, 24>(samples, out, overs, || d.next_lsb()),
+            (Codec::I32, None) => encode::<4, 32>(samples, out, overs, || 0.0),
+            (Codec::I32, Some(d)) => encode::<4, 32>(samples, out, overs, || d.next_lsb()),
+            (Codec::F32, _) => {
+                for (b, &x) in out.chunks_exact_mut(4).zip(samples) {
+                    b.copy_from_slice(&(x as f32).to_le_bytes());
+                }
+                *overs += count_overs(samples);
             }
-            match self.codec {
-                Codec::U8 => {
-                    let code = self.quantise(x, 8);
-                    self.scratch.push((code + 128) as u8);
+            (Codec::F64, _) => {
+                for (b, &x) in out.chunks_exact_mut(8).zip(samples) {
+                    b.copy_from_slice(&x.to_le_bytes());
                 }
-                Codec::I16 => {
-                    let code = self.quantise(x, 16) as i16;
-                    self.scratch.extend_from_slice(&code.to_le_bytes());
-                }
-                Codec::I24 => {
-                    let code = self.quantise(x, 24);
-                    self.scratch.extend_from_slice(&code.to_le_bytes()[..3]);
-                }
-                Codec::I32 => {
-                    let code = self.quantise(x, 32);
-                    self.scratch.extend_from_slice(&code.to_le_bytes());
-                }
-                Codec::F32 => {
-                    self.count_over(x);
-                    self.scratch.extend_from_slice(&(x as f32).to_le_bytes());
-                }
-                Codec::F64 => {
-                    self.count_over(x);
-                    self.scratch.extend_from_slice(&x.to_le_bytes());
-                }
+                *overs += count_overs(samples);
             }
         }
         self.file.write_all(&self.scratch).map_err(|e| Error::io(&target, e))?;
@@ -200,29 +196,45 @@ impl WavWriter {
         self.file.commit()?;
         Ok(WriteStats { frames, overs: self.overs })
     }
+}
 
-    /// The integer code for `x` in a `bits`-wide word: scaled by 2^(bits−1), dithered,
-    /// rounded to nearest and clipped (counting the clip).
-    fn quantise(&mut self, x: f64, bits: u16) -> i32 {
-        let scale = 1.0 / int_step(bits);
-        let dither = self.dither.as_mut().map_or(0.0, TpdfDither::next_lsb);
-        let code = (x * scale + dither).round_ties_even();
-        if code > scale - 1.0 {
-            self.overs += 1;
-            (scale - 1.0) as i32
-        } else if code < -scale {
-            self.overs += 1;
-            -scale as i32
+/// Float samples beyond full scale.
+fn count_overs(samples: &[f64]) -> u64 {
+    samples.iter().map(|x| u64::from(x.abs() > 1.0)).sum()
+}
+
+/// Encodes non-NaN `samples` as `BITS`-bit integer codes of `BYTES` little-endian
+/// bytes (8-bit: unsigned, offset 128): each is scaled by 2^(BITS−1), dithered by
+/// `dither()` LSB, rounded to the nearest code (ties to even) and clipped to the
+/// extreme codes, counting each clip in `overs`.
+#[inline(always)]
+fn encode<const BYTES: usize, const BITS: u32>(
+    samples: &[f64],
+    out: &mut [u8],
+    overs: &mut u64,
+    mut dither: impl FnMut() -> f64,
+) {
+    let scale = 1.0 / int_step(BITS as u16);
+    let (lo, hi) = (-scale, scale - 1.0);
+    // Adding and removing 1.5·2^52 rounds to the nearest integer, ties to even, for
+    // |v| < 2^51 (IEEE 754 default rounding), without a libm call where the CPU has
+    // no rounding instruction; the clamp to one step beyond the codes keeps v there
+    // and leaves clipping and its count as they were.
+    const ROUND: f64 = 6_755_399_441_055_744.0;
+    let mut clipped = 0;
+    for (b, &x) in out.chunks_exact_mut(BYTES).zip(samples) {
+        let v = (x * scale + dither()).clamp(lo - 1.0, hi + 1.0);
+        let code = (v + ROUND) - ROUND;
+        let c = code.clamp(lo, hi);
+        clipped += u64::from(c != code);
+        let c = c as i32;
+        if BYTES == 1 {
+            b[0] = (c + 128) as u8;
         } else {
-            code as i32
+            b.copy_from_slice(&c.to_le_bytes()[..BYTES]);
         }
     }
-
-    fn count_over(&mut self, x: f64) {
-        if x.abs() > 1.0 {
-            self.overs += 1;
-        }
-    }
+    *overs += clipped;
 }
 
 /// The header bytes for `spec` with zero sizes, the offset of the `fact` sample count

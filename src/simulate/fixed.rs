@@ -4,7 +4,6 @@
 use super::{check_channels, check_frames, Engine};
 use crate::error::Result;
 use crate::quantize::{FixedCascade, Overflow, Rounding, Structure};
-use std::ops::{Add, BitAnd, Mul, Shl, Shr, Sub};
 
 /// Runs a [`FixedCascade`] on integer samples exactly as a target does.
 ///
@@ -53,6 +52,14 @@ use std::ops::{Add, BitAnd, Mul, Shl, Shr, Sub};
 /// Error feedback adds the previous narrowing errors so the error reaching the output
 /// is shaped by (1 − z⁻¹) (order 1) or (1 − z⁻¹)² (order 2): zeros at DC, which cut the
 /// large low-frequency noise gain of poles near z = 1.
+///
+/// The implementation computes exactly this, faster: sums whose terms and total fit
+/// 64 bits (every format with A ≤ 56, where coef_bits + data_bits ≤ 56) are formed in
+/// i64 directly; with A = 64 each sum is formed in i64 with overflow detection and only
+/// a sum that overflowed is formed again in i128. The cascade runs block by block with
+/// groups of sections holding their states in registers; results are the same for any
+/// block size and channel count (tests/fixed_point.rs compares every format, rounding,
+/// overflow and structure with a literal i128 evaluation of the arithmetic above).
 #[derive(Debug, Clone)]
 pub struct FixedEngine {
     channels: usize,
@@ -67,10 +74,14 @@ pub struct FixedEngine {
 /// Word limits of one format, shared by every section.
 #[derive(Debug, Clone, Copy)]
 struct Params {
-    acc_bits: u32,
+    /// 64 − acc_bits: the shift pair that wraps an accumulator.
+    acc_wrap: u32,
     acc_lo: i64,
     acc_hi: i64,
-    data_bits: u32,
+    /// acc_hi − acc_lo.
+    acc_span: u64,
+    /// 64 − data_bits.
+    data_wrap: u32,
     data_lo: i64,
     data_hi: i64,
 }
@@ -82,148 +93,267 @@ struct SectionCoefs {
     c: [i64; 5],
     /// Narrowing shift r = coef_frac − shift.
     r: u32,
+    /// 2^r − 1: the bits a narrowing drops.
+    mask: i64,
     /// Added before the shift: 2^(r−1) for nearest, 0 for floor or r = 0.
     half: i64,
     /// Round-half-even threshold on m + (q & 1): 2^(r−1), or 1 when r = 0 (never up).
     even_thr: i64,
+    /// Sums from `fast_lo` to `fast_lo + fast_span` narrow without any overflow
+    /// (see [`narrow`]).
+    fast_lo: i64,
+    fast_span: u64,
 }
 
 /// A specialised loop over one channel of an interleaved buffer; returns overflows.
 type Kernel = fn(&Params, &[SectionCoefs], &mut [[i64; 6]], &mut [i32], usize, usize) -> u64;
 
-/// The integer type a kernel accumulates in: i64, or i128 for a 64-bit accumulator.
-trait Word:
-    Copy
-    + Ord
-    + Add<Output = Self>
-    + Sub<Output = Self>
-    + Mul<Output = Self>
-    + Shl<u32, Output = Self>
-    + Shr<u32, Output = Self>
-    + BitAnd<Output = Self>
-{
-    /// Bits in the type.
-    const BITS: u32;
-    /// Widens an i64.
-    fn of(v: i64) -> Self;
-    /// The low 64 bits (exact for values that fit).
-    fn low(self) -> i64;
-}
+/// Frames per block.
+const BLOCK: usize = 64;
 
-impl Word for i64 {
-    const BITS: u32 = 64;
-    fn of(v: i64) -> Self {
-        v
-    }
-    fn low(self) -> i64 {
-        self
-    }
-}
+/// Sections per group (see [`sections`]). Measured on 8 q15 and q31 df1 sections
+/// (benches/engines.rs): 2 beats 1 (waits on the recursion) and 4 (spills registers).
+const GROUP: usize = 2;
 
-impl Word for i128 {
-    const BITS: u32 = 128;
-    fn of(v: i64) -> Self {
-        v as i128
-    }
-    fn low(self) -> i64 {
-        self as i64
-    }
-}
-
-/// fit_W of the module doc: saturate or wrap `v` to `bits` bits.
+/// The sum of `terms` (each fits i64) if it is exact in i64: always when A ≤ 56
+/// (|sum| < 2^57), and with `WIDE` (A = 64) when no addition overflowed.
 #[inline(always)]
-fn fit<W: Word, const SAT: bool>(v: W, lo: i64, hi: i64, bits: u32) -> W {
-    if SAT {
-        v.clamp(W::of(lo), W::of(hi))
-    } else {
-        let k = W::BITS - bits;
-        (v << k) >> k
-    }
-}
-
-/// round_r of the module doc; nearest and floor differ only in `half`.
-#[inline(always)]
-fn round<W: Word, const EVEN: bool>(v: W, s: &SectionCoefs) -> W {
-    if EVEN {
-        let q = v >> s.r;
-        let m = v - (q << s.r);
-        let odd = q & W::of(1);
-        if m + odd > W::of(s.even_thr) {
-            q + W::of(1)
-        } else {
-            q
+fn exact_sum<const WIDE: bool, const N: usize>(terms: [i64; N]) -> Option<i64> {
+    if WIDE {
+        let mut sum = terms[0];
+        for &t in &terms[1..] {
+            sum = sum.checked_add(t)?;
         }
+        Some(sum)
     } else {
-        (v + W::of(s.half)) >> s.r
+        Some(terms.iter().sum())
     }
 }
 
-/// Narrows an accumulator to a sample: y = fit_D(round_r(acc)); counts overflows.
+/// Whether `lo ≤ v ≤ lo + span`, in one comparison.
 #[inline(always)]
-fn narrow<W: Word, const SAT: bool, const EVEN: bool>(
-    acc: W,
-    s: &SectionCoefs,
+fn within(v: i64, lo: i64, span: u64) -> bool {
+    (v.wrapping_sub(lo) as u64) <= span
+}
+
+/// fit_A of the exact sum of `terms`, counting a change.
+#[inline(always)]
+fn fit_sum<const SAT: bool, const WIDE: bool, const N: usize>(
+    terms: [i64; N],
     p: &Params,
     count: &mut u64,
-) -> (W, i64) {
-    let q = round::<W, EVEN>(acc, s);
-    let y = fit::<W, SAT>(q, p.data_lo, p.data_hi, p.data_bits);
-    *count += u64::from(y != q);
-    (q, y.low())
-}
-
-/// fit_A with the overflow count.
-#[inline(always)]
-fn fit_acc<W: Word, const SAT: bool>(v: W, p: &Params, count: &mut u64) -> W {
-    let a = fit::<W, SAT>(v, p.acc_lo, p.acc_hi, p.acc_bits);
-    *count += u64::from(a != v);
+) -> i64 {
+    let (sum, a) = if WIDE {
+        let sum: i128 = terms.iter().map(|&t| i128::from(t)).sum();
+        let a = if SAT { sum.clamp(i64::MIN.into(), i64::MAX.into()) as i64 } else { sum as i64 };
+        (sum, a)
+    } else {
+        let sum: i64 = terms.iter().sum();
+        let a = if SAT { sum.clamp(p.acc_lo, p.acc_hi) } else { (sum << p.acc_wrap) >> p.acc_wrap };
+        (i128::from(sum), a)
+    };
+    *count += u64::from(i128::from(a) != sum);
     a
 }
 
-/// The input sample narrowed to the data word.
+/// round_r of the documentation. The nearest/floor form adds before shifting, so it
+/// is used only where `v + 2^(r−1)` cannot pass i64; elsewhere the dropped bits are
+/// rounded apart: ⌊(v + h)/2^r⌋ = (v >> r) + ((v & mask) + h) >> r.
 #[inline(always)]
-fn fit_input<const SAT: bool>(v: i32, p: &Params, count: &mut u64) -> i64 {
-    let x = fit::<i64, SAT>(i64::from(v), p.data_lo, p.data_hi, p.data_bits);
-    *count += u64::from(x != i64::from(v));
-    x
-}
-
-/// Direct form I, error feedback of order `EF`, over one channel.
-fn df1<W: Word, const SAT: bool, const EVEN: bool, const EF: u32>(
-    p: &Params,
-    secs: &[SectionCoefs],
-    state: &mut [[i64; 6]],
-    samples: &mut [i32],
-    ch: usize,
-    n: usize,
-) -> u64 {
-    let mut count = 0;
-    for v in samples.iter_mut().skip(ch).step_by(n) {
-        let mut x = fit_input::<SAT>(*v, p, &mut count);
-        for (s, st) in secs.iter().zip(state.iter_mut()) {
-            let [b0, b1, b2, a1, a2] = s.c.map(W::of);
-            let mut sum = b0 * W::of(x) + b1 * W::of(st[0]) + b2 * W::of(st[1])
-                - a1 * W::of(st[2])
-                - a2 * W::of(st[3]);
-            if EF == 1 {
-                sum = sum + W::of(st[4]);
-            } else if EF == 2 {
-                sum = sum + W::of(2 * st[4] - st[5]);
-            }
-            let acc = fit_acc::<W, SAT>(sum, p, &mut count);
-            let (q, y) = narrow::<W, SAT, EVEN>(acc, s, p, &mut count);
-            let e = if EF > 0 { (acc - (q << s.r)).low() } else { 0 };
-            *st = [x, st[0], y, st[2], e, st[4]];
-            x = y;
-        }
-        // x fits the data word, which is at most 32 bits wide.
-        *v = x as i32;
+fn round<const EVEN: bool, const SAFE: bool>(v: i64, s: &SectionCoefs) -> i64 {
+    if EVEN {
+        let q = v >> s.r;
+        q + i64::from((v & s.mask) + (q & 1) > s.even_thr)
+    } else if SAFE {
+        (v >> s.r) + (((v & s.mask) + s.half) >> s.r)
+    } else {
+        (v + s.half) >> s.r
     }
-    count
 }
 
-/// Transposed direct form II with accumulator-width states, over one channel.
-fn df2t<W: Word, const SAT: bool, const EVEN: bool>(
+/// fit_D with the overflow count.
+#[inline(always)]
+fn fit_data<const SAT: bool>(v: i64, p: &Params, count: &mut u64) -> i64 {
+    let y = if SAT { v.clamp(p.data_lo, p.data_hi) } else { (v << p.data_wrap) >> p.data_wrap };
+    *count += u64::from(y != v);
+    y
+}
+
+/// `G` sections over a block of one channel's samples (already fitted to the data
+/// word) from `input` to `output`, states in local variables for the whole block.
+/// Each sum's terms are products of a coefficient (≤ 32 bits) and a sample (≤ 32
+/// bits), or states of the accumulator width, so each fits i64.
+///
+/// `EXACT`: the arithmetic of the documentation step by step, counting overflows;
+/// always returns true. Otherwise the fast path, which returns false, leaving `state`
+/// and `count` as they were, at the first sum that is not exact in i64 (`WIDE`) or
+/// that leaves its overflow-free range: for a narrowing, the section's `fast` range
+/// [data_lo·2^r, (data_hi − 1)·2^r], which lies inside the accumulator range
+/// (A ≥ coef_bits + data_bits > data_bits + r) and which rounding cannot leave (it
+/// moves a value by less than one step of 2^r); for a df2t state, the accumulator
+/// range. Inside those ranges every fit is the identity, so both paths agree.
+#[inline(always)]
+fn sections<
+    const SAT: bool,
+    const EVEN: bool,
+    const EF: u32,
+    const DF2T: bool,
+    const WIDE: bool,
+    const G: usize,
+    const EXACT: bool,
+>(
+    p: &Params,
+    secs: &[SectionCoefs],
+    state: &mut [[i64; 6]],
+    input: &[i64],
+    output: &mut [i64],
+    count: &mut u64,
+) -> bool {
+    let sc: [SectionCoefs; G] = std::array::from_fn(|k| secs[k]);
+    let mut st: [[i64; 6]; G] = std::array::from_fn(|k| state[k]);
+    let mut n = 0;
+    for (&v, out) in input.iter().zip(output.iter_mut()) {
+        let mut x = v;
+        for (s, t) in sc.iter().zip(st.iter_mut()) {
+            let [b0, b1, b2, a1, a2] = s.c;
+            x = if DF2T {
+                let Some((_, _, y)) =
+                    narrow::<SAT, EVEN, WIDE, EXACT, 2>([b0 * x, t[0]], s, p, &mut n)
+                else {
+                    return false;
+                };
+                let Some(s1) = acc_of::<SAT, WIDE, EXACT, 3>([b1 * x, -(a1 * y), t[1]], p, &mut n)
+                else {
+                    return false;
+                };
+                let Some(s2) = acc_of::<SAT, WIDE, EXACT, 2>([b2 * x, -(a2 * y)], p, &mut n) else {
+                    return false;
+                };
+                *t = [s1, s2, t[2], t[3], t[4], t[5]];
+                y
+            } else {
+                let fb = match EF {
+                    0 => 0,
+                    1 => t[4],
+                    _ => 2 * t[4] - t[5],
+                };
+                let terms = [b0 * x, b1 * t[0], b2 * t[1], -(a1 * t[2]), -(a2 * t[3]), fb];
+                let Some((acc, q, y)) = narrow::<SAT, EVEN, WIDE, EXACT, 6>(terms, s, p, &mut n)
+                else {
+                    return false;
+                };
+                if EF > 0 {
+                    // |e| ≤ 2^r: exact even where q·2^r alone would pass i64.
+                    let e = acc.wrapping_sub(q.wrapping_shl(s.r));
+                    *t = [x, t[0], y, t[2], e, t[4]];
+                } else {
+                    // e1, e2 are settled after the loop, sparing two registers.
+                    *t = [x, t[0], y, t[2], t[4], t[5]];
+                }
+                y
+            };
+        }
+        *out = x;
+    }
+    if !DF2T && EF == 0 && !input.is_empty() {
+        // Without feedback each sample shifts e1 → e2 and stores e1 = 0.
+        for t in &mut st {
+            t[5] = if input.len() == 1 { t[4] } else { 0 };
+            t[4] = 0;
+        }
+    }
+    state[..G].copy_from_slice(&st);
+    *count += n;
+    true
+}
+
+/// fit_A of the sum of `terms`; `None` on the fast path when it is not the identity.
+#[inline(always)]
+fn acc_of<const SAT: bool, const WIDE: bool, const EXACT: bool, const N: usize>(
+    terms: [i64; N],
+    p: &Params,
+    count: &mut u64,
+) -> Option<i64> {
+    if EXACT {
+        return Some(fit_sum::<SAT, WIDE, N>(terms, p, count));
+    }
+    let sum = exact_sum::<WIDE, N>(terms)?;
+    (WIDE || within(sum, p.acc_lo, p.acc_span)).then_some(sum)
+}
+
+/// The narrowing y = fit_D(round_r(fit_A(sum of `terms`))) as (acc, round_r(acc), y);
+/// `None` on the fast path when a fit would not be the identity.
+#[inline(always)]
+fn narrow<
+    const SAT: bool,
+    const EVEN: bool,
+    const WIDE: bool,
+    const EXACT: bool,
+    const N: usize,
+>(
+    terms: [i64; N],
+    s: &SectionCoefs,
+    p: &Params,
+    count: &mut u64,
+) -> Option<(i64, i64, i64)> {
+    if EXACT {
+        let acc = fit_sum::<SAT, WIDE, N>(terms, p, count);
+        let q = round::<EVEN, true>(acc, s);
+        return Some((acc, q, fit_data::<SAT>(q, p, count)));
+    }
+    let sum = exact_sum::<WIDE, N>(terms)?;
+    if !within(sum, s.fast_lo, s.fast_span) {
+        return None;
+    }
+    let q = round::<EVEN, false>(sum, s);
+    Some((sum, q, q))
+}
+
+/// A group of `size` sections (1 to [`GROUP`]) from `input` to `output`: the fast
+/// path of [`sections`], and the exact one from the same state when it gives up.
+#[inline(always)]
+fn group<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
+    size: usize,
+    p: &Params,
+    secs: &[SectionCoefs],
+    state: &mut [[i64; 6]],
+    io: (&[i64], &mut [i64]),
+    count: &mut u64,
+) {
+    let (input, output) = io;
+    let done = match size {
+        1 => sections::<SAT, EVEN, EF, DF2T, WIDE, 1, false>(p, secs, state, input, output, count),
+        _ => sections::<SAT, EVEN, EF, DF2T, WIDE, 2, false>(p, secs, state, input, output, count),
+    };
+    if !done {
+        exact::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, input, output, count);
+    }
+}
+
+/// The exact path of [`sections`], one section at a time, kept out of the fast loop.
+#[cold]
+#[inline(never)]
+fn exact<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
+    p: &Params,
+    secs: &[SectionCoefs],
+    state: &mut [[i64; 6]],
+    input: &[i64],
+    output: &mut [i64],
+    count: &mut u64,
+) {
+    output.copy_from_slice(input);
+    for (k, state) in state.iter_mut().enumerate() {
+        let (secs, state) = (&secs[k..=k], std::slice::from_mut(state));
+        let mut tmp = [0i64; BLOCK];
+        let tmp = &mut tmp[..output.len()];
+        tmp.copy_from_slice(output);
+        sections::<SAT, EVEN, EF, DF2T, WIDE, 1, true>(p, secs, state, tmp, output, count);
+    }
+}
+
+/// The cascade over channel `ch` of an `n`-channel buffer, block by block, section
+/// groups as equal in size as possible, passing the block between two buffers.
+fn run<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
@@ -232,43 +362,52 @@ fn df2t<W: Word, const SAT: bool, const EVEN: bool>(
     n: usize,
 ) -> u64 {
     let mut count = 0;
-    for v in samples.iter_mut().skip(ch).step_by(n) {
-        let mut x = fit_input::<SAT>(*v, p, &mut count);
-        for (s, st) in secs.iter().zip(state.iter_mut()) {
-            let [b0, b1, b2, a1, a2] = s.c.map(W::of);
-            let (wx, s1, s2) = (W::of(x), W::of(st[0]), W::of(st[1]));
-            let acc = fit_acc::<W, SAT>(b0 * wx + s1, p, &mut count);
-            let (_, y) = narrow::<W, SAT, EVEN>(acc, s, p, &mut count);
-            let wy = W::of(y);
-            st[0] = fit_acc::<W, SAT>(b1 * wx - a1 * wy + s2, p, &mut count).low();
-            st[1] = fit_acc::<W, SAT>(b2 * wx - a2 * wy, p, &mut count).low();
-            x = y;
+    let (mut one, mut two) = ([0i64; BLOCK], [0i64; BLOCK]);
+    let ns = secs.len();
+    let groups = ns.div_ceil(GROUP);
+    for chunk in samples.chunks_mut(BLOCK * n) {
+        let m = chunk.len() / n;
+        let (mut a, mut b) = (&mut one[..m], &mut two[..m]);
+        for (v, frame) in a.iter_mut().zip(chunk.chunks_exact(n)) {
+            *v = fit_data::<SAT>(i64::from(frame[ch]), p, &mut count);
         }
-        *v = x as i32;
+        let mut k = 0;
+        for g in 0..groups {
+            // The first ns % groups groups take one section more.
+            let size = ns / groups + usize::from(g < ns % groups);
+            let (secs, state) = (&secs[k..k + size], &mut state[k..k + size]);
+            group::<SAT, EVEN, EF, DF2T, WIDE>(size, p, secs, state, (a, b), &mut count);
+            std::mem::swap(&mut a, &mut b);
+            k += size;
+        }
+        for (v, frame) in a.iter().zip(chunk.chunks_exact_mut(n)) {
+            // Every value fits the data word, which is at most 32 bits wide.
+            frame[ch] = *v as i32;
+        }
     }
     count
 }
 
 /// The kernel for a structure and error feedback order, given the other choices.
-fn pick_structure<W: Word, const SAT: bool, const EVEN: bool>(
+fn pick_structure<const SAT: bool, const EVEN: bool, const WIDE: bool>(
     structure: Structure,
     ef: u32,
 ) -> Kernel {
     match (structure, ef) {
-        (Structure::Df1, 0) => df1::<W, SAT, EVEN, 0>,
-        (Structure::Df1, 1) => df1::<W, SAT, EVEN, 1>,
-        (Structure::Df1, _) => df1::<W, SAT, EVEN, 2>,
-        (Structure::Df2t, _) => df2t::<W, SAT, EVEN>,
+        (Structure::Df1, 0) => run::<SAT, EVEN, 0, false, WIDE>,
+        (Structure::Df1, 1) => run::<SAT, EVEN, 1, false, WIDE>,
+        (Structure::Df1, _) => run::<SAT, EVEN, 2, false, WIDE>,
+        (Structure::Df2t, _) => run::<SAT, EVEN, 0, true, WIDE>,
     }
 }
 
-/// The kernel for a word type, given overflow, rounding, structure and feedback.
-fn pick_word<W: Word>(sat: bool, even: bool, structure: Structure, ef: u32) -> Kernel {
+/// The kernel for a word width, given overflow, rounding, structure and feedback.
+fn pick_word<const WIDE: bool>(sat: bool, even: bool, structure: Structure, ef: u32) -> Kernel {
     match (sat, even) {
-        (true, true) => pick_structure::<W, true, true>(structure, ef),
-        (true, false) => pick_structure::<W, true, false>(structure, ef),
-        (false, true) => pick_structure::<W, false, true>(structure, ef),
-        (false, false) => pick_structure::<W, false, false>(structure, ef),
+        (true, true) => pick_structure::<true, true, WIDE>(structure, ef),
+        (true, false) => pick_structure::<true, false, WIDE>(structure, ef),
+        (false, true) => pick_structure::<false, true, WIDE>(structure, ef),
+        (false, false) => pick_structure::<false, false, WIDE>(structure, ef),
     }
 }
 
@@ -298,10 +437,11 @@ impl FixedEngine {
         let (acc_lo, acc_hi) = word_limits(f.acc_bits);
         let (data_lo, data_hi) = word_limits(f.data_bits);
         let params = Params {
-            acc_bits: f.acc_bits,
+            acc_wrap: 64 - f.acc_bits,
             acc_lo,
             acc_hi,
-            data_bits: f.data_bits,
+            acc_span: acc_hi.abs_diff(acc_lo),
+            data_wrap: 64 - f.data_bits,
             data_lo,
             data_hi,
         };
@@ -314,17 +454,21 @@ impl FixedEngine {
                 SectionCoefs {
                     c: [s.b[0], s.b[1], s.b[2], s.a[0], s.a[1]],
                     r,
+                    mask: (1i64 << r) - 1,
                     half: if f.rounding == Rounding::Nearest { half_r } else { 0 },
                     even_thr: if r == 0 { 1 } else { half_r },
+                    // Both fit i64: data_bits + r < acc_bits ≤ 64 (see `narrow`).
+                    fast_lo: data_lo << r,
+                    fast_span: ((data_hi - 1) << r).abs_diff(data_lo << r),
                 }
             })
             .collect();
         let (sat, even) = (f.overflow == Overflow::Saturate, f.rounding == Rounding::Even);
         // Sums fit i64 while A ≤ 56 (then coef_bits + data_bits ≤ 56, see the doc).
         let kernel = if f.acc_bits <= 56 {
-            pick_word::<i64>(sat, even, fixed.structure, f.error_feedback)
+            pick_word::<false>(sat, even, fixed.structure, f.error_feedback)
         } else {
-            pick_word::<i128>(sat, even, fixed.structure, f.error_feedback)
+            pick_word::<true>(sat, even, fixed.structure, f.error_feedback)
         };
         let state = vec![[0; 6]; sections.len() * channels];
         Ok(Self { channels, params, sections, state, overflows: 0, kernel })
