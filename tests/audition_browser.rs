@@ -14,7 +14,7 @@ use tonewright::audition::{write_page, AuditionPage, Track};
 use tonewright::plot::{frequency_svg, write_svg, Curve, CurveStyle, FrequencyFigure};
 
 /// Each browser run is cut off after this long.
-const BROWSER_TIMEOUT: Duration = Duration::from_secs(25);
+const BROWSER_TIMEOUT: Duration = Duration::from_secs(90);
 const RATE: u32 = 48000;
 
 fn find_chromium() -> Option<PathBuf> {

@@ -226,19 +226,11 @@ fn part(spec: &PartSpec, knobs: &KnobPositions) -> Vec<circuit::Part> {
             vec![
                 circuit::Part {
                     label: format!("{label} end A to wiper"),
-                    element: Element::Resistor {
-                        ohms: to_wiper,
-                        a: a.clone(),
-                        b: w.clone(),
-                    },
+                    element: Element::Resistor { ohms: to_wiper, a: a.clone(), b: w.clone() },
                 },
                 circuit::Part {
                     label: format!("{label} wiper to end B"),
-                    element: Element::Resistor {
-                        ohms: from_wiper,
-                        a: w.clone(),
-                        b: b.clone(),
-                    },
+                    element: Element::Resistor { ohms: from_wiper, a: w.clone(), b: b.clone() },
                 },
             ]
         }

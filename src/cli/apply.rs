@@ -1,6 +1,6 @@
 //! `tonewright apply DESIGN INPUT... -o OUTPUT [options]`
 
-use super::inspect::number_override;
+use super::design_args::DesignArgs;
 use super::signal::parse_bits;
 use crate::apply::{apply_file, check_batch, ApplyOptions, FileReport, Outputs};
 use crate::error::{Error, Result};
@@ -13,23 +13,14 @@ use std::path::{Path, PathBuf};
 #[command(after_help = "Caution: start playback quietly. Resonant, high-gain or unstable \
 quantized filters can produce full-scale tones; protect your hearing and your speakers.")]
 pub struct Args {
-    /// The design file (TOML).
-    design: PathBuf,
+    #[command(flatten)]
+    design: DesignArgs,
     /// WAV files to process (with several, OUTPUT is a folder).
     #[arg(required = true)]
     inputs: Vec<PathBuf>,
     /// Output WAV file, or folder for several inputs.
     #[arg(short = 'o', long = "output")]
     output: PathBuf,
-    /// Sample rate to discretize at (default: the design's, else the file's).
-    #[arg(long)]
-    rate: Option<f64>,
-    /// Knob position, NAME=POS (repeatable).
-    #[arg(long = "knob", value_name = "NAME=POS")]
-    knobs: Vec<String>,
-    /// Arithmetic of the output, overriding the design: f64, f32, q15, q23 or q31.
-    #[arg(long)]
-    number: Option<String>,
     /// Output sample format: 8, 16, 24, 32, f32 or f64 (default: the input's).
     #[arg(long)]
     bits: Option<String>,
@@ -72,8 +63,8 @@ fn place(path: &Path, input: &Path, batch: bool) -> Result<PathBuf> {
 
 /// Runs `apply`.
 pub fn run(args: Args) -> Result<()> {
-    let design = crate::design::load(&args.design)?;
-    let number = number_override(&design, args.number.as_deref())?;
+    let design = args.design.load()?;
+    let number = design.target.number;
     let bits = args.bits.as_deref().map(parse_bits).transpose()?;
     let batch = args.inputs.len() > 1;
     check_batch(&args.inputs)?;
@@ -95,8 +86,8 @@ pub fn run(args: Args) -> Result<()> {
         }
     }
     let opts = ApplyOptions {
-        knobs: args.knobs.clone(),
-        rate: args.rate,
+        knobs: args.design.knob_settings.clone(),
+        rate: args.design.rate,
         number,
         bits,
         dither: !args.no_dither,

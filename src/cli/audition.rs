@@ -1,7 +1,7 @@
 //! `tonewright audition DESIGN INPUT.wav -o DIR`: a folder with the input, the float,
 //! target and residual runs, the figures and an index.html that switches between them.
 
-use super::inspect::number_override;
+use super::design_args::DesignArgs;
 use super::plot::write_figures;
 use crate::apply::{apply_file, ApplyOptions, FileReport, Outputs};
 use crate::atomic_file::AtomicFile;
@@ -19,22 +19,13 @@ use std::path::PathBuf;
 #[command(after_help = "Caution: start playback quietly. Resonant, high-gain or unstable \
 quantized filters can produce full-scale tones; protect your hearing and your speakers.")]
 pub struct Args {
-    /// The design file (TOML).
-    design: PathBuf,
+    #[command(flatten)]
+    design: DesignArgs,
     /// The recording to audition (WAV).
     input: PathBuf,
     /// Folder to write (created if missing).
     #[arg(short = 'o', long = "output")]
     output: PathBuf,
-    /// Sample rate to discretize at (default: the design's, else the file's).
-    #[arg(long)]
-    rate: Option<f64>,
-    /// Knob position, NAME=POS (repeatable).
-    #[arg(long = "knob", value_name = "NAME=POS")]
-    knobs: Vec<String>,
-    /// Arithmetic of the target run, overriding the design: f64, f32, q15, q23 or q31.
-    #[arg(long)]
-    number: Option<String>,
     /// Gain of the residual track, dB.
     #[arg(long, default_value_t = 40.0, allow_negative_numbers = true)]
     residual_gain: f64,
@@ -45,11 +36,11 @@ pub struct Args {
 
 /// Runs `audition`.
 pub fn run(args: Args) -> Result<()> {
-    let design = crate::design::load(&args.design)?;
-    let number = number_override(&design, args.number.as_deref())?;
+    let design = args.design.load()?;
+    let number = design.target.number;
     let dir = &args.output;
     std::fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
-    let protect = [args.input.as_path(), args.design.as_path()];
+    let protect = [args.input.as_path(), args.design.design.as_path()];
 
     let input_copy = dir.join("input.wav");
     let bytes = std::fs::read(&args.input).map_err(|e| Error::io(&args.input, e))?;
@@ -60,8 +51,8 @@ pub fn run(args: Args) -> Result<()> {
         residual_gain_db: args.residual_gain,
     };
     let opts = ApplyOptions {
-        knobs: args.knobs.clone(),
-        rate: args.rate,
+        knobs: args.design.knob_settings.clone(),
+        rate: args.design.rate,
         number,
         bits: None,
         dither: true,
@@ -74,8 +65,8 @@ pub fn run(args: Args) -> Result<()> {
     copy.write_all(&bytes).map_err(|e| Error::io(&input_copy, e))?;
     copy.commit()?;
 
-    let rate = choose_rate(args.rate, &design, Some(f64::from(report.file_rate)))?;
-    let port = port(design, &args.knobs, rate)?;
+    let rate = choose_rate(args.design.rate, &design, Some(f64::from(report.file_rate)))?;
+    let port = port(design, &args.design.knob_settings, rate)?;
     let figs = figures(&port, number, None)?;
     write_figures(dir, &figs, &protect)?;
     let summary = inspect::build(&port, number, None)?;

@@ -1,6 +1,7 @@
 //! `tonewright export DESIGN --lang c|rust [-o DIR] [--template FILE]... [--vectors N]
 //! [--knobs] [--rate HZ] [--knob NAME=POS]... [--force]`
 
+use super::design_args::DesignArgs;
 use crate::error::Result;
 use crate::export::{self, ExportOptions, Lang};
 use crate::pipeline::{choose_rate, port};
@@ -9,8 +10,8 @@ use std::path::PathBuf;
 /// Arguments of `export`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
-    /// The design file (TOML).
-    design: PathBuf,
+    #[command(flatten)]
+    design: DesignArgs,
     /// Language of the generated source.
     #[arg(long, value_enum)]
     lang: Lang,
@@ -26,12 +27,6 @@ pub struct Args {
     /// Write coefficient tables over every knob's travel, with interpolation advice.
     #[arg(long)]
     knobs: bool,
-    /// Sample rate in Hz (overrides the design's `[target] rate`).
-    #[arg(long)]
-    rate: Option<f64>,
-    /// Knob position, NAME=POS with POS from 0 to 1 (repeatable).
-    #[arg(long = "knob", value_name = "NAME=POS")]
-    knob_settings: Vec<String>,
     /// Export even when the stored poles reach the unit circle.
     #[arg(long)]
     force: bool,
@@ -39,9 +34,9 @@ pub struct Args {
 
 /// Runs `export`; `command` is the command line for the generated headers.
 pub fn run(args: Args, command: String) -> Result<()> {
-    let design = crate::design::load(&args.design)?;
-    let rate = choose_rate(args.rate, &design, None)?;
-    let port = port(design, &args.knob_settings, rate)?;
+    let design = args.design.load()?;
+    let rate = choose_rate(args.design.rate, &design, None)?;
+    let port = port(design, &args.design.knob_settings, rate)?;
     let options = ExportOptions {
         lang: args.lang,
         templates: args.templates.clone(),
@@ -51,7 +46,7 @@ pub fn run(args: Args, command: String) -> Result<()> {
         command,
     };
     let out = export::export(&port, &options)?;
-    let mut inputs: Vec<&std::path::Path> = vec![args.design.as_path()];
+    let mut inputs: Vec<&std::path::Path> = vec![args.design.design.as_path()];
     inputs.extend(args.templates.iter().map(PathBuf::as_path));
     let written = export::write(&out, &args.output, &inputs)?;
     for w in &out.warnings {

@@ -1,25 +1,15 @@
 //! `tonewright inspect DESIGN [--rate HZ] [--knob NAME=POS]... [--json]`
 
+use super::design_args::DesignArgs;
 use crate::error::{Error, Result};
 use crate::pipeline::{choose_rate, port};
-use crate::quantize::NumberFormat;
 use crate::report::inspect;
-use std::path::PathBuf;
 
 /// Arguments of `inspect`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
-    /// The design file (TOML).
-    design: PathBuf,
-    /// Sample rate in Hz (overrides the design's `[target] rate`).
-    #[arg(long)]
-    rate: Option<f64>,
-    /// Knob position, NAME=POS with POS from 0 to 1 (repeatable).
-    #[arg(long = "knob", value_name = "NAME=POS")]
-    knobs: Vec<String>,
-    /// Number format, overriding the design's: f64, f32, q15, q23 or q31.
-    #[arg(long)]
-    number: Option<String>,
+    #[command(flatten)]
+    design: DesignArgs,
     /// Band for the float-versus-quantized comparison, LO:HI in Hz.
     #[arg(long, value_name = "LO:HI")]
     band: Option<String>,
@@ -47,24 +37,13 @@ pub fn parse_band(text: &str) -> Result<(f64, f64)> {
     }
 }
 
-/// The design's number format, or `--number` when given.
-///
-/// # Errors
-/// An unknown format name.
-pub fn number_override(design: &crate::design::Design, text: Option<&str>) -> Result<NumberFormat> {
-    match text {
-        Some(t) => NumberFormat::parse("--number", t),
-        None => Ok(design.target.number),
-    }
-}
-
 /// Runs `inspect`.
 pub fn run(args: Args) -> Result<()> {
-    let design = crate::design::load(&args.design)?;
-    let rate = choose_rate(args.rate, &design, None)?;
-    let number = number_override(&design, args.number.as_deref())?;
+    let design = args.design.load()?;
+    let rate = choose_rate(args.design.rate, &design, None)?;
+    let number = design.target.number;
     let band = args.band.as_deref().map(parse_band).transpose()?;
-    let port = port(design, &args.knobs, rate)?;
+    let port = port(design, &args.design.knob_settings, rate)?;
     let mut report = inspect::build(&port, number, band)?;
     if args.measure {
         report.measured = Some(inspect::measured(&port, number)?);

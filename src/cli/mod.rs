@@ -4,6 +4,7 @@
 
 mod apply;
 mod audition;
+mod design_args;
 mod export;
 mod inspect;
 mod plot;

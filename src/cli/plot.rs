@@ -1,6 +1,6 @@
 //! `tonewright plot DESIGN -o DIR [--knob NAME=POS]... [--sweep KNOB]`
 
-use super::inspect::number_override;
+use super::design_args::DesignArgs;
 use crate::error::{Error, Result};
 use crate::pipeline::{choose_rate, port};
 use crate::plot::{design::figures, write_svg};
@@ -9,20 +9,11 @@ use std::path::{Path, PathBuf};
 /// Arguments of `plot`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
-    /// The design file (TOML).
-    design: PathBuf,
+    #[command(flatten)]
+    design: DesignArgs,
     /// Folder for the SVG figures (created if missing).
     #[arg(short = 'o', long = "output")]
     output: PathBuf,
-    /// Sample rate in Hz (overrides the design's).
-    #[arg(long)]
-    rate: Option<f64>,
-    /// Knob position, NAME=POS (repeatable).
-    #[arg(long = "knob", value_name = "NAME=POS")]
-    knobs: Vec<String>,
-    /// Number format to compare with float64, overriding the design's.
-    #[arg(long)]
-    number: Option<String>,
     /// Also draw the magnitude over this knob's travel.
     #[arg(long, value_name = "KNOB")]
     sweep: Option<String>,
@@ -49,12 +40,12 @@ pub fn write_figures(
 
 /// Runs `plot`.
 pub fn run(args: Args) -> Result<()> {
-    let design = crate::design::load(&args.design)?;
-    let rate = choose_rate(args.rate, &design, None)?;
-    let number = number_override(&design, args.number.as_deref())?;
-    let port = port(design, &args.knobs, rate)?;
+    let design = args.design.load()?;
+    let rate = choose_rate(args.design.rate, &design, None)?;
+    let number = design.target.number;
+    let port = port(design, &args.design.knob_settings, rate)?;
     let figs = figures(&port, number, args.sweep.as_deref())?;
-    for path in write_figures(&args.output, &figs, &[&args.design])? {
+    for path in write_figures(&args.output, &figs, &[&args.design.design])? {
         println!("wrote {}", path.display());
     }
     Ok(())
