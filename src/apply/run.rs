@@ -181,12 +181,18 @@ pub fn apply_file(
         if let Some(t) = &mut tone_in {
             t.add(channel0(&block));
         }
-        if let Some(f) = &mut float {
-            reference.clear();
-            reference.extend_from_slice(&block);
-            f.process(&mut reference)?;
-        }
-        main.process(&mut block)?;
+        // The target and the f64 reference run on both cores at once.
+        let (done_main, done_float) = match &mut float {
+            Some(f) => {
+                reference.clear();
+                reference.extend_from_slice(&block);
+                let (a, b) = rayon::join(|| main.process(&mut block), || f.process(&mut reference));
+                (a, b)
+            }
+            None => (main.process(&mut block), Ok(())),
+        };
+        done_main?;
+        done_float?;
         levels_out.add(&block);
         if let Some(t) = &mut tone_out {
             t.add(channel0(&block));

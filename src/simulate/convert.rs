@@ -3,9 +3,11 @@
 use crate::error::{Error, Result};
 
 /// The scale of a `data_bits`-bit sample word: full scale 1.0 is 2^(data_bits−1).
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[derive(Debug, Clone, Copy, PartialEq)]
 pub struct SampleScale {
     bits: u32,
+    /// 2^(data_bits−1): one full scale in LSB.
+    full_scale: f64,
 }
 
 impl SampleScale {
@@ -19,7 +21,7 @@ impl SampleScale {
                 "target.fixed.data_bits: {data_bits} must be between 2 and 32"
             )));
         }
-        Ok(Self { bits: data_bits })
+        Ok(Self { bits: data_bits, full_scale: 2f64.powi(data_bits as i32 - 1) })
     }
 
     /// The word length, bits.
@@ -39,7 +41,7 @@ impl SampleScale {
 
     /// One LSB as a fraction of full scale, 2^−(data_bits−1).
     pub fn lsb(&self) -> f64 {
-        2f64.powi(1 - self.bits as i32)
+        1.0 / self.full_scale
     }
 
     /// A fraction of full scale to the nearest sample (ties to even), saturated to the
@@ -51,15 +53,22 @@ impl SampleScale {
     /// assert_eq!(q15.to_int(0.5), 16384);
     /// assert_eq!(q15.to_int(1.0), 32767); // saturated
     /// ```
+    #[inline]
     pub fn to_int(&self, x: f64) -> i32 {
-        let v = (x / self.lsb()).round_ties_even();
-        // `as` saturates and maps NaN to 0; then clamp to the word.
-        (v as i64).clamp(self.min() as i64, self.max() as i64) as i32
+        // Adding and removing 1.5·2^52 rounds to the nearest integer, ties to even, for
+        // |v| < 2^51 (IEEE 754 default rounding) without a libm call on CPUs that lack
+        // a rounding instruction in the baseline set; the first clamp keeps v there.
+        const ROUND: f64 = 6_755_399_441_055_744.0;
+        let (lo, hi) = (f64::from(self.min()), f64::from(self.max()));
+        let v = (x * self.full_scale).clamp(lo - 1.0, hi + 1.0);
+        // NaN passes both clamps and `as` maps it to 0.
+        (((v + ROUND) - ROUND).clamp(lo, hi)) as i32
     }
 
     /// A sample as a fraction of full scale.
+    #[inline]
     pub fn to_f64(&self, v: i32) -> f64 {
-        v as f64 * self.lsb()
+        f64::from(v) / self.full_scale
     }
 }
 

@@ -1,0 +1,91 @@
+#!/usr/bin/env python3
+"""End to end, side by side: a 10-minute 48 kHz stereo 16-bit file through the eight
+sections of benches/eight-sections.toml.
+
+- tonewright apply: q15 output plus the f64 run (--float-out), both written as 16-bit;
+- tonewright apply of a one-section pass-through (gain 0 dB) in f64: reading and
+  writing with (almost) no filtering, the baseline of the 1.5x target;
+- numpy + scipy.signal.sosfilt (float64): read with the wave module, filter the same
+  float64 sections (taken from `tonewright inspect --json`), write 16-bit.
+
+Run from the crate root after `cargo build --release`:
+    env -u OPENBLAS_CORETYPE -u OPENBLAS_L2_SIZE python3 benches/end_to_end.py
+Prints median wall-clock seconds of 3 runs each, and the ratios.
+"""
+import json
+import os
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+import wave
+
+import numpy as np
+import scipy
+import scipy.signal
+
+TOOL = os.path.join("target", "release", "tonewright")
+DESIGN = os.path.join("benches", "eight-sections.toml")
+RATE, SECONDS, RUNS = 48000, 600, 3
+
+
+def make_input(path):
+    rng = np.random.default_rng(1)
+    with wave.open(path, "wb") as w:
+        w.setnchannels(2)
+        w.setsampwidth(2)
+        w.setframerate(RATE)
+        for _ in range(SECONDS // 10):
+            block = (rng.standard_normal((RATE * 10, 2)) * 0.1 * 32767).astype("<i2")
+            w.writeframes(block.tobytes())
+
+
+def timed(fn):
+    times = []
+    for _ in range(RUNS):
+        start = time.perf_counter()
+        fn()
+        times.append(time.perf_counter() - start)
+    return statistics.median(times)
+
+
+def main():
+    report = json.loads(subprocess.run([TOOL, "inspect", DESIGN, "--json", "--number", "f64"],
+                                       check=True, capture_output=True, text=True).stdout)
+    sos = np.array([s["b"] + s["a"] for s in report["sections"]])
+    with tempfile.TemporaryDirectory() as tmp:
+        src = os.path.join(tmp, "in.wav")
+        make_input(src)
+        passthrough = os.path.join(tmp, "pass.toml")
+        with open(passthrough, "w") as f:
+            f.write('[[stage]]\nkind = "gain"\ndb = 0\n')
+        out, flt = os.path.join(tmp, "q15.wav"), os.path.join(tmp, "f64.wav")
+
+        def tool():
+            subprocess.run([TOOL, "apply", DESIGN, src, "-o", out, "--float-out", flt],
+                           check=True, capture_output=True)
+
+        def baseline():
+            subprocess.run([TOOL, "apply", passthrough, src, "-o", out, "--number", "f64",
+                            "--no-dither"], check=True, capture_output=True)
+
+        def numpy_scipy():
+            with wave.open(src, "rb") as r:
+                x = np.frombuffer(r.readframes(r.getnframes()), dtype="<i2").reshape(-1, 2) / 32768.0
+            y = scipy.signal.sosfilt(sos, x, axis=0)
+            with wave.open(os.path.join(tmp, "scipy.wav"), "wb") as w:
+                w.setnchannels(2)
+                w.setsampwidth(2)
+                w.setframerate(RATE)
+                w.writeframes(np.clip(np.round(y * 32768.0), -32768, 32767).astype("<i2").tobytes())
+
+        t_tool, t_base, t_py = timed(tool), timed(baseline), timed(numpy_scipy)
+    print(f"scipy {scipy.__version__}, numpy {np.__version__}, load {os.getloadavg()[0]:.2f}")
+    print(f"tonewright apply, q15 + f64 outputs : {t_tool:7.2f} s")
+    print(f"tonewright apply, pass-through       : {t_base:7.2f} s  (ratio {t_tool / t_base:.2f}, target <= 1.5)")
+    print(f"numpy + scipy.signal.sosfilt (f64)   : {t_py:7.2f} s  (tonewright / scipy {t_tool / t_py:.2f}, target < 0.5)")
+
+
+if __name__ == "__main__":
+    sys.exit(main())
