@@ -4,7 +4,7 @@
 mod common;
 
 use biquad::{Coefficients, Hertz, Type};
-use common::{assert_close, db, response};
+use common::{assert_close, assert_input_error, db, response};
 use num_complex::Complex64;
 use tonewright::analog::parametric::{parametric, Shape};
 use tonewright::analog::{poly, AnalogSection};
@@ -200,37 +200,28 @@ fn every_parametric_stage_is_prewarped_at_f0() {
     }
 }
 
-fn input_error(r: tonewright::Result<AnalogSection>, needles: &[&str]) {
-    let msg = match r {
-        Err(tonewright::Error::Input(m)) => m,
-        other => panic!("expected an input error containing {needles:?}, got {other:?}"),
-    };
-    let first = msg.chars().next().unwrap();
-    assert!(!first.is_uppercase() && !msg.ends_with('.'), "lowercase, no period: {msg}");
-    for n in needles {
-        assert!(msg.contains(n), "{msg:?} should contain {n:?}");
-    }
-}
-
 #[test]
 fn invalid_parametric_requests_are_refused_with_clear_messages() {
-    input_error(parametric(Shape::Lowpass, 2, 0.0, 0.7, 0.0), &["freq 0 Hz", "positive"]);
-    input_error(parametric(Shape::Lowpass, 2, f64::NAN, 0.7, 0.0), &["freq NaN Hz"]);
-    input_error(parametric(Shape::Peak, 2, f64::INFINITY, 0.7, 3.0), &["freq inf Hz"]);
-    input_error(parametric(Shape::Highpass, 2, 100.0, 0.0, 0.0), &["q 0 must be positive"]);
-    input_error(parametric(Shape::Highpass, 2, 100.0, -1.0, 0.0), &["q -1"]);
-    input_error(parametric(Shape::Notch, 2, 100.0, f64::NAN, 0.0), &["q NaN"]);
-    input_error(parametric(Shape::Peak, 2, 100.0, 1.0, f64::NAN), &["gain_db NaN dB", "finite"]);
-    input_error(parametric(Shape::Peak, 1, 100.0, 1.0, 3.0), &["peak order 1 must be 2"]);
-    input_error(parametric(Shape::Notch, 1, 100.0, 1.0, 0.0), &["notch order 1 must be 2"]);
-    input_error(parametric(Shape::Bandpass, 3, 100.0, 1.0, 0.0), &["bandpass order 3"]);
-    input_error(
+    assert_input_error(parametric(Shape::Lowpass, 2, 0.0, 0.7, 0.0), &["freq 0 Hz", "positive"]);
+    assert_input_error(parametric(Shape::Lowpass, 2, f64::NAN, 0.7, 0.0), &["freq NaN Hz"]);
+    assert_input_error(parametric(Shape::Peak, 2, f64::INFINITY, 0.7, 3.0), &["freq inf Hz"]);
+    assert_input_error(parametric(Shape::Highpass, 2, 100.0, 0.0, 0.0), &["q 0 must be positive"]);
+    assert_input_error(parametric(Shape::Highpass, 2, 100.0, -1.0, 0.0), &["q -1"]);
+    assert_input_error(parametric(Shape::Notch, 2, 100.0, f64::NAN, 0.0), &["q NaN"]);
+    assert_input_error(
+        parametric(Shape::Peak, 2, 100.0, 1.0, f64::NAN),
+        &["gain_db NaN dB", "finite"],
+    );
+    assert_input_error(parametric(Shape::Peak, 1, 100.0, 1.0, 3.0), &["peak order 1 must be 2"]);
+    assert_input_error(parametric(Shape::Notch, 1, 100.0, 1.0, 0.0), &["notch order 1 must be 2"]);
+    assert_input_error(parametric(Shape::Bandpass, 3, 100.0, 1.0, 0.0), &["bandpass order 3"]);
+    assert_input_error(
         parametric(Shape::Lowpass, 0, 100.0, 1.0, 0.0),
         &["lowpass order 0 must be 1 or 2"],
     );
-    input_error(parametric(Shape::Lowshelf, 3, 100.0, 1.0, 6.0), &["lowshelf order 3"]);
+    assert_input_error(parametric(Shape::Lowshelf, 3, 100.0, 1.0, 6.0), &["lowshelf order 3"]);
     // A finite but absurd gain overflows A = 10^(gain_db/40).
-    input_error(parametric(Shape::Lowshelf, 2, 100.0, 1.0, 1e5), &["cannot be represented"]);
+    assert_input_error(parametric(Shape::Lowshelf, 2, 100.0, 1.0, 1e5), &["cannot be represented"]);
     // Q is not used at order 1, so an unset (zero) Q there is accepted.
     assert!(parametric(Shape::Lowpass, 1, 100.0, 0.0, 0.0).is_ok());
 }

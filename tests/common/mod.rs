@@ -64,3 +64,18 @@ pub fn names_in(dir: &std::path::Path) -> Vec<String> {
 pub fn repo(path: &str) -> std::path::PathBuf {
     std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join(path)
 }
+
+/// Asserts an input error whose one lowercase line, without a trailing period,
+/// contains every needle.
+#[track_caller]
+pub fn assert_input_error<T: std::fmt::Debug>(r: tonewright::Result<T>, needles: &[&str]) {
+    let msg = match r {
+        Err(tonewright::Error::Input(m)) => m,
+        other => panic!("expected an input error containing {needles:?}, got {other:?}"),
+    };
+    let first = msg.chars().next().unwrap();
+    assert!(!first.is_uppercase() && !msg.ends_with('.'), "lowercase, no period: {msg}");
+    for n in needles {
+        assert!(msg.contains(n), "{msg:?} should contain {n:?}");
+    }
+}
