@@ -11,8 +11,9 @@ fn main() {
     divan::main();
 }
 
-/// An invented 40-part RC ladder (20 sections of varied values) with a q15 target.
-fn ladder_design() -> String {
+/// An invented 40-part RC ladder (20 sections of varied values) with a target number
+/// format.
+fn ladder_design(number: &str) -> String {
     let mut parts = String::new();
     for k in 0..20 {
         let (from, to) = (
@@ -24,12 +25,13 @@ fn ladder_design() -> String {
         parts.push_str(&format!("  {{ r = \"{r:.2}k\", nodes = [\"{from}\", \"{to}\"] }},\n"));
         parts.push_str(&format!("  {{ c = \"{c:.1}n\", nodes = [\"{to}\", \"gnd\"] }},\n"));
     }
-    format!("[target]\nrate = 48000\nnumber = \"q31\"\n\n[[stage]]\nkind = \"circuit\"\nparts = [\n{parts}]\n")
+    format!("[target]\nrate = 48000\nnumber = \"{number}\"\n\n[[stage]]\nkind = \"circuit\"\nparts = [\n{parts}]\n")
 }
 
-#[divan::bench(sample_count = 20)]
-fn inspect_40_part_circuit(bencher: Bencher) {
-    let text = ladder_design();
+/// The float report alone (f64 target) and with the quantization analysis (q31).
+#[divan::bench(sample_count = 20, args = ["f64", "q31"])]
+fn inspect_40_part_circuit(bencher: Bencher, number: &str) {
+    let text = ladder_design(number);
     bencher.bench(|| {
         let d = design::parse("ladder.toml", &text, text.as_bytes()).unwrap();
         let number = d.target.number;
