@@ -139,6 +139,27 @@ fn a_batch_with_mixed_channel_counts_is_refused_before_anything_is_written() {
 }
 
 #[test]
+fn a_batch_reports_each_failed_file_on_one_line_and_still_writes_the_others() {
+    let dir = scratch_dir("batch-partial");
+    let design = good_design(&dir);
+    let (good, low) = (dir.join("good.wav"), dir.join("low.wav"));
+    good_wav(&good, 1, 48000);
+    good_wav(&low, 1, 500);
+    let out = dir.join("out");
+    let result = apply(&design, &[&low, &good], &out);
+    let want = format!("error: {}: rate 500 Hz must be from 1000", low.display());
+    assert_refused("batch with a 500 Hz file", &result_without_stdout(result), &want);
+    assert!(out.join("good.wav").exists(), "the good file was not written");
+    assert!(!out.join("low.wav").exists(), "the failed file has an output");
+}
+
+/// The batch prints the good file's report on stdout; only stderr is judged here.
+fn result_without_stdout(mut out: std::process::Output) -> std::process::Output {
+    out.stdout.clear();
+    out
+}
+
+#[test]
 fn absurd_requests_are_refused_quickly_before_any_large_allocation() {
     // Memory is bounded by construction, not measured: the loader counts a circuit's
     // parts and a transfer's coefficients before building anything (MAX_PARTS,
