@@ -75,6 +75,13 @@ pub fn run(args: Args) -> Result<()> {
     let design = crate::design::load(&args.design)?;
     let number = number_override(&design, args.number.as_deref())?;
     let bits = args.bits.as_deref().map(parse_bits).transpose()?;
+    // 200 dB lifts a 32-bit LSB (2^-31, -187 dBFS) to full scale; more only overflows.
+    if !(args.residual_gain.is_finite() && args.residual_gain.abs() <= 200.0) {
+        return Err(Error::input(format!(
+            "--residual-gain {}: must be a number of dB from -200 to 200",
+            args.residual_gain
+        )));
+    }
     let batch = args.inputs.len() > 1;
     check_batch(&args.inputs)?;
     if batch {
