@@ -160,6 +160,34 @@ fn result_without_stdout(mut out: std::process::Output) -> std::process::Output 
 }
 
 #[test]
+fn bad_option_values_are_refused_before_any_output() {
+    let dir = scratch_dir("options");
+    let design = good_design(&dir);
+    let input = dir.join("in.wav");
+    good_wav(&input, 1, 48000);
+    let (out, residual) = (dir.join("out.wav"), dir.join("residual.wav"));
+    let base =
+        ["apply", design.to_str().unwrap(), input.to_str().unwrap(), "-o", out.to_str().unwrap()];
+    for (extra, want) in [
+        (
+            vec!["--residual-gain", "nan", "--residual", residual.to_str().unwrap()],
+            "error: --residual-gain NaN: must be",
+        ),
+        (
+            vec!["--residual-gain", "1000", "--residual", residual.to_str().unwrap()],
+            "error: --residual-gain 1000: must be",
+        ),
+        (vec!["--bits", "12"], "error: --bits 12: expected"),
+        (vec!["--knob", "tone=0.5"], "error: --knob tone=0.5: "),
+        (vec!["--rate", "nan"], "error: rate NaN Hz must be"),
+    ] {
+        let result = tonewright(base.iter().chain(&extra));
+        assert_refused(&extra.join(" "), &result, want);
+        assert_only(&dir, &["good.toml", "in.wav"]);
+    }
+}
+
+#[test]
 fn absurd_requests_are_refused_quickly_before_any_large_allocation() {
     // Memory is bounded by construction, not measured: the loader counts a circuit's
     // parts and a transfer's coefficients before building anything (MAX_PARTS,
