@@ -195,14 +195,14 @@ fn absurd_requests_are_refused_quickly_before_any_large_allocation() {
     // size its header declares with the file's length before it reads, then reads in
     // blocks of fixed size. Time is bounded loosely here, for a debug build.
     let dir = scratch_dir("absurd");
-    let tera = dir.join("declares-tera.wav");
+    let huge = dir.join("declares-4gib.wav");
     // The largest size a RIFF header can declare (4 GiB − 1 in a 32-bit field; 64-bit
     // RF64 sizes are refused outright), over a file of 44 bytes.
     let mut header = b"RIFF\xff\xff\xff\xffWAVEfmt \x10\0\0\0\x01\0\x02\0".to_vec();
     header.extend(48000u32.to_le_bytes());
     header.extend((48000u32 * 4).to_le_bytes());
     header.extend(b"\x04\0\x10\0data\xff\xff\xff\xff");
-    std::fs::write(&tera, &header).unwrap();
+    std::fs::write(&huge, &header).unwrap();
     let order = dir.join("order-million.toml");
     std::fs::write(
         &order,
@@ -217,8 +217,8 @@ fn absurd_requests_are_refused_quickly_before_any_large_allocation() {
     let cases: [(&str, Vec<&Path>, String); 3] = [
         (
             "4 GiB header",
-            vec![Path::new("apply"), &design, &tera, Path::new("-o"), &out],
-            format!("error: {}: truncated data chunk: header declares 4294967295", tera.display()),
+            vec![Path::new("apply"), &design, &huge, Path::new("-o"), &out],
+            format!("error: {}: truncated data chunk: header declares 4294967295", huge.display()),
         ),
         (
             "order 1000000",
