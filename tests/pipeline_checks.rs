@@ -169,3 +169,80 @@ proptest! {
         prop_assert!(e < 1e-9, "error {e:e}");
     }
 }
+
+/// One random stage of a design file whose analog poles are all in the left half-plane
+/// (parametric sections with positive Q, classic families), without its `freq` line,
+/// and that frequency as a fraction of Nyquist, from 1e-4 (poles a hair from z = 1) to
+/// 0.98.
+fn stable_stage() -> impl Strategy<Value = (String, f64)> {
+    let q = (-1.0f64..2.0).prop_map(|e| 10f64.powf(e));
+    let parametric = (
+        prop::sample::select(vec![
+            "lowpass",
+            "highpass",
+            "bandpass",
+            "notch",
+            "allpass",
+            "peak",
+            "lowshelf",
+            "highshelf",
+        ]),
+        q,
+        -40.0f64..40.0,
+    )
+        .prop_map(|(kind, q, g)| {
+            let gain = if matches!(kind, "peak" | "lowshelf" | "highshelf") {
+                format!("gain_db = {g}\n")
+            } else {
+                String::new()
+            };
+            format!("kind = \"{kind}\"\nq = {q}\n{gain}")
+        });
+    let family = (
+        prop::sample::select(vec!["butterworth", "bessel", "chebyshev", "linkwitz-riley"]),
+        1usize..=8,
+        prop::sample::select(vec!["lowpass", "highpass"]),
+        0.01f64..3.0,
+    )
+        .prop_map(|(family, order, band, ripple)| {
+            let order = if family == "linkwitz-riley" { 2 * order.div_ceil(2) } else { order };
+            let ripple = if family == "chebyshev" {
+                format!("ripple_db = {ripple}\n")
+            } else {
+                String::new()
+            };
+            format!(
+                "kind = \"prototype\"\nfamily = \"{family}\"\norder = {order}\nband = \"{band}\"\n\
+                 {ripple}"
+            )
+        });
+    (prop_oneof![parametric, family], (-4.0f64..-0.01).prop_map(|e| 10f64.powf(e)))
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(96))]
+    #[test]
+    fn random_stable_analog_designs_give_stable_finite_digital_sections(
+        stages in prop::collection::vec(stable_stage(), 1..5),
+        rate in prop::sample::select(vec![8000u32, 44100, 48000, 96000, 192_000, 384_000]),
+        prewarp in prop::sample::select(vec!["each", "none"]),
+        scaling in prop::sample::select(vec!["none", "linf", "l2", "l1"]),
+    ) {
+        // The bilinear transform maps the open left half-plane into the open unit disc
+        // (Oppenheim & Schafer, Discrete-Time Signal Processing, 3rd ed., sec. 7.2), so
+        // every pole of every section must have |z| < 1.
+        let nyquist = f64::from(rate) / 2.0;
+        let body: String = stages
+            .iter()
+            .map(|(stage, fraction)| format!("[[stage]]\n{stage}freq = {}\n\n", fraction * nyquist))
+            .collect();
+        let text = format!("[target]\nprewarp = \"{prewarp}\"\nscaling = \"{scaling}\"\n\n{body}");
+        let d = design::parse("random.toml", &text, text.as_bytes()).unwrap();
+        let p = port(d, &[], f64::from(rate)).unwrap();
+        for s in &p.cascade.sections {
+            prop_assert!(s.b.iter().chain(&s.a).all(|c| c.is_finite()), "{s:?}\n{text}");
+        }
+        let radius = sections::max_pole_radius(&p.cascade.sections);
+        prop_assert!(radius < 1.0, "pole radius {radius}\n{text}");
+    }
+}

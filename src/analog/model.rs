@@ -149,7 +149,14 @@ fn stage_model(
             ("sum", factorize(&zpk).map_err(in_stage)?)
         }
         StageKind::Gain { db } => {
-            ("gain", vec![AnalogSection::gain(10f64.powf(knobs.value(db) / 20.0))])
+            let amp = 10f64.powf(knobs.value(db) / 20.0);
+            if !amp.is_finite() {
+                return Err(db.place.error(format!(
+                    "{} dB is a gain beyond the f64 range (at most about 6000 dB)",
+                    knobs.value(db)
+                )));
+            }
+            ("gain", vec![AnalogSection::gain(amp)])
         }
     };
     let zpk = sections

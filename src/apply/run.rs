@@ -93,7 +93,15 @@ pub fn apply_file(
     let mut reader = WavReader::open(input)?;
     let spec = reader.spec();
     let channels = usize::from(spec.channels);
-    let rate = choose_rate(opts.rate, design, Some(f64::from(spec.rate)))?;
+    let rate = choose_rate(opts.rate, design, Some(f64::from(spec.rate))).map_err(|e| {
+        match e {
+            // The rate is the file's own: say which file.
+            Error::Input(m) if opts.rate.is_none() && design.target.rate.is_none() => {
+                Error::input(format!("{}: {m}", input.display()))
+            }
+            other => other,
+        }
+    })?;
     let mut warnings = Vec::new();
     if rate != f64::from(spec.rate) {
         warnings.push(format!(

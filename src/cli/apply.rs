@@ -66,6 +66,13 @@ pub fn run(args: Args) -> Result<()> {
     let design = args.design.load()?;
     let number = design.target.number;
     let bits = args.bits.as_deref().map(parse_bits).transpose()?;
+    // 200 dB lifts a 32-bit LSB (2^-31, -187 dBFS) to full scale; more only overflows.
+    if !(args.residual_gain.is_finite() && args.residual_gain.abs() <= 200.0) {
+        return Err(Error::input(format!(
+            "--residual-gain {}: must be a number of dB from -200 to 200",
+            args.residual_gain
+        )));
+    }
     let batch = args.inputs.len() > 1;
     check_batch(&args.inputs)?;
     if batch {
@@ -118,16 +125,12 @@ pub fn run(args: Args) -> Result<()> {
         })
         .collect();
     let mut reports = Vec::new();
-    let mut first_error = None;
+    let mut errors = Vec::new();
     for (input, result) in args.inputs.iter().zip(results) {
         match result {
             Ok(r) => reports.push(r),
-            Err(e) => {
-                if batch {
-                    eprintln!("error: {}: {e}", input.display());
-                }
-                first_error.get_or_insert(e);
-            }
+            Err(e) if batch => errors.push(naming(input, e)),
+            Err(e) => errors.push(e),
         }
     }
     if args.json {
@@ -139,8 +142,20 @@ pub fn run(args: Args) -> Result<()> {
             print!("{}", r.to_text());
         }
     }
-    match first_error {
-        Some(e) => Err(e),
-        None => Ok(()),
+    // One line per failed file, in input order: the last is printed by the caller.
+    let last = errors.pop();
+    for e in errors {
+        eprintln!("error: {e}");
+    }
+    last.map_or(Ok(()), Err)
+}
+
+/// `e`, with the input's name in front unless its message already names it.
+fn naming(input: &Path, e: Error) -> Error {
+    let name = input.display().to_string();
+    match e {
+        Error::Input(m) if !m.contains(&name) => Error::Input(format!("{name}: {m}")),
+        Error::Numeric(m) if !m.contains(&name) => Error::Numeric(format!("{name}: {m}")),
+        other => other,
     }
 }

@@ -22,8 +22,11 @@ const MAX_STAGES: usize = 256;
 /// `file:line` and the key.
 pub fn load(path: &Path) -> Result<Design> {
     let bytes = std::fs::read(path).map_err(|e| Error::io(path, e))?;
-    let text = String::from_utf8(bytes.clone())
-        .map_err(|_| Error::input(format!("{}: not UTF-8 text", path.display())))?;
+    let text = String::from_utf8(bytes.clone()).map_err(|e| {
+        let line =
+            1 + bytes[..e.utf8_error().valid_up_to()].iter().filter(|&&b| b == b'\n').count();
+        Error::input(format!("{}:{line}: not UTF-8 text", path.display()))
+    })?;
     parse(&path.display().to_string(), &text, &bytes)
 }
 

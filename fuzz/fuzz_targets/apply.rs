@@ -1,0 +1,7 @@
+//! Fuzz target: see `harness::apply` in tests/common/harness.rs.
+
+#![no_main]
+
+libfuzzer_sys::fuzz_target!(|data: &[u8]| {
+    let _ = tonewright_fuzz::harness::apply(data);
+});
