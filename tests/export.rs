@@ -7,6 +7,9 @@
 //! and rustc (`--edition 2021 --test -D warnings`). Tests that need a compiler print a
 //! notice and pass when it is absent.
 
+mod common;
+
+use common::{cli, names_in};
 use num_complex::Complex64;
 use std::path::{Path, PathBuf};
 use std::process::Command;
@@ -129,10 +132,7 @@ fn options(lang: Lang, vectors: Option<usize>, command: &str) -> ExportOptions {
 }
 
 fn scratch(name: &str) -> PathBuf {
-    let dir = std::env::temp_dir().join(format!("tonewright-export-{}-{name}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&dir);
-    std::fs::create_dir_all(&dir).unwrap();
-    dir
+    common::scratch("export", name)
 }
 
 fn write_files(out: &Export, dir: &Path) {
@@ -436,26 +436,6 @@ fn exports_are_reproducible_byte_for_byte() {
     assert_eq!(a.files, b.files);
     assert!(a.files[0].text.contains(" * generated: do not edit\n"));
     assert!(a.files[0].text.contains(&format!("fnv1a-64 {}", p.design.hash)));
-}
-
-/// Runs the CLI in `dir`; returns (exit code, stdout, stderr).
-fn cli(dir: &Path, args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_tonewright")).args(args).current_dir(dir).output();
-    let out = out.unwrap();
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
-
-fn names_in(dir: &Path) -> Vec<String> {
-    let mut v: Vec<String> = std::fs::read_dir(dir)
-        .unwrap()
-        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
-        .collect();
-    v.sort();
-    v
 }
 
 /// A scratch folder with the lp-hp-bandpass demo as `lp.toml` and an empty `out/`.

@@ -12,6 +12,15 @@ use std::path::Path;
 use tonewright::audio::dither::SplitMix64;
 use tonewright::audio::{SampleFormat, WavReader, WavSpec, WavWriter};
 
+/// The formats hound 3.5 writes and reads: 8/16/24/32-bit integer and 32-bit float.
+const HOUND_FORMATS: [(hound::SampleFormat, u16); 5] = [
+    (hound::SampleFormat::Int, 8),
+    (hound::SampleFormat::Int, 16),
+    (hound::SampleFormat::Int, 24),
+    (hound::SampleFormat::Int, 32),
+    (hound::SampleFormat::Float, 32),
+];
+
 const FORMATS: [SampleFormat; 6] = [
     SampleFormat::Int { bits: 8 },
     SampleFormat::Int { bits: 16 },
@@ -192,14 +201,7 @@ fn reader_matches_hound_for_every_format_hound_reads() {
     // hound 3.5 writes and reads 8/16/24/32-bit integer and 32-bit float (not 64-bit
     // float); it writes EXTENSIBLE headers for 6 channels and for >16 bits.
     let dir = scratch_dir("hound");
-    let cases = [
-        (hound::SampleFormat::Int, 8u16),
-        (hound::SampleFormat::Int, 16),
-        (hound::SampleFormat::Int, 24),
-        (hound::SampleFormat::Int, 32),
-        (hound::SampleFormat::Float, 32),
-    ];
-    for (sample_format, bits) in cases {
+    for (sample_format, bits) in HOUND_FORMATS {
         for channels in [1u16, 2, 6] {
             let path = dir.join(format!("hound-{bits}-{channels}.wav"));
             let spec = hound::WavSpec {
@@ -256,14 +258,7 @@ fn writer_stores_the_same_sample_bytes_as_hound_for_every_format_hound_writes() 
     // The headers differ on purpose (module doc of wav_write: plain PCM up to two
     // channels); the data chunk must be byte for byte what hound 3.5 writes.
     let dir = scratch_dir("hound-write");
-    let cases = [
-        (hound::SampleFormat::Int, 8u16),
-        (hound::SampleFormat::Int, 16),
-        (hound::SampleFormat::Int, 24),
-        (hound::SampleFormat::Int, 32),
-        (hound::SampleFormat::Float, 32),
-    ];
-    for (sample_format, bits) in cases {
+    for (sample_format, bits) in HOUND_FORMATS {
         for channels in [1u16, 2, 6] {
             let n = 1001 * usize::from(channels);
             let (ours, theirs) = (dir.join("ours.wav"), dir.join("hound.wav"));

@@ -16,8 +16,7 @@ use std::path::PathBuf;
 
 /// Arguments of `audition`.
 #[derive(Debug, clap::Args)]
-#[command(after_help = "Caution: start playback quietly. Resonant, high-gain or unstable \
-quantized filters can produce full-scale tones; protect your hearing and your speakers.")]
+#[command(after_help = super::LISTENING_CAUTION)]
 pub struct Args {
     #[command(flatten)]
     design: DesignArgs,

@@ -11,6 +11,10 @@ mod plot;
 mod signal;
 
 use clap::{Parser, Subcommand};
+
+/// The listening caution shown under `apply` and `audition` in `--help`.
+const LISTENING_CAUTION: &str = "Caution: start playback quietly. Resonant, high-gain or \
+unstable quantized filters can produce full-scale tones; protect your hearing and your speakers.";
 use std::ffi::OsString;
 
 /// Port analog filters and tone stages to DSP firmware.
