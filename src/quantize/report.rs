@@ -140,9 +140,11 @@ pub fn analyze(cascade: &Cascade, fixed: &FixedCascade, band: (f64, f64)) -> Res
         )));
     }
     let eff = fixed.effective_sections()?;
-    let noise = rounding_noise(fixed)?;
-    let room = headroom(fixed)?;
-    let cycles = find_limit_cycle(fixed)?;
+    // The three analyses are independent; the limit-cycle search takes about as long as
+    // the other two together, so it runs on the second core.
+    let ((noise, room), cycles) =
+        rayon::join(|| (rounding_noise(fixed), headroom(fixed)), || find_limit_cycle(fixed));
+    let (noise, room, cycles) = (noise?, room?, cycles?);
     let f = fixed.format;
     let more_bits = (f.coef_bits + 8).min(32);
     let roots = |v: Vec<Complex64>| v.into_iter().map(|z| Root::new(z, rate)).collect::<Vec<_>>();
