@@ -1,6 +1,7 @@
 //! Where a band-reject design rejects most, and how much it should.
 
 use crate::analysis::response::{log_grid, to_db};
+use crate::sections::norms::golden_section_max;
 use crate::sections::Cascade;
 use serde::Serialize;
 
@@ -30,18 +31,8 @@ pub fn stop_frequency(cascade: &Cascade) -> Option<StopBand> {
     if i == 0 || i + 1 == levels.len() || min > edges - BAND_REJECT_DB {
         return None;
     }
-    // Golden-section refinement of the minimum between the neighbouring grid points.
-    let (mut a, mut b) = (grid[i - 1], grid[i + 1]);
-    for _ in 0..100 {
-        let m1 = b - (b - a) * 0.618_033_988_749_895;
-        let m2 = a + (b - a) * 0.618_033_988_749_895;
-        if db(m1) < db(m2) {
-            b = m2;
-        } else {
-            a = m1;
-        }
-    }
-    let hz = 0.5 * (a + b);
+    // Refine the minimum between the neighbouring grid points.
+    let hz = golden_section_max(|f| -db(f), (grid[i - 1], grid[i + 1]), 100);
     let peak = levels.iter().copied().fold(f64::NEG_INFINITY, f64::max);
     let depth = cascade.response_at_hz(hz).norm();
     let predicted_db = if depth < 1e-12 { f64::INFINITY } else { peak - db(hz) };

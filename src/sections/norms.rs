@@ -107,18 +107,29 @@ pub fn linf_norm(sections: &[Sos]) -> f64 {
     let (w_best, g_best) = candidates
         .map(|w| (w, gain_at(sections, w)))
         .fold((0.0, f64::NEG_INFINITY), |b, c| if c.1 > b.1 { c } else { b });
-    // Golden-section search for a maximum in [w − step, w + step] ∩ [0, π].
-    let (mut lo, mut hi) = ((w_best - step).max(0.0), (w_best + step).min(PI));
+    let bracket = ((w_best - step).max(0.0), (w_best + step).min(PI));
+    let w = golden_section_max(|w| gain_at(sections, w), bracket, 60);
+    g_best.max(gain_at(sections, w))
+}
+
+/// The argument of the maximum of a unimodal `f` on `[lo, hi]` by golden-section search
+/// (J. Kiefer, "Sequential minimax search for a maximum", Proc. AMS 4(3), 1953):
+/// each of `iterations` steps keeps 0.618 of the bracket.
+pub(crate) fn golden_section_max(
+    f: impl Fn(f64) -> f64,
+    (mut lo, mut hi): (f64, f64),
+    iterations: usize,
+) -> f64 {
     let inv_phi = (5f64.sqrt() - 1.0) / 2.0;
-    for _ in 0..60 {
+    for _ in 0..iterations {
         let (m1, m2) = (hi - inv_phi * (hi - lo), lo + inv_phi * (hi - lo));
-        if gain_at(sections, m1) < gain_at(sections, m2) {
+        if f(m1) < f(m2) {
             lo = m1;
         } else {
             hi = m2;
         }
     }
-    g_best.max(gain_at(sections, 0.5 * (lo + hi)))
+    0.5 * (lo + hi)
 }
 
 #[cfg(test)]
