@@ -469,15 +469,19 @@ fn exacting_input(scale: SampleScale, frames: usize, channels: usize, seed: u64)
         .collect()
 }
 
-/// The engines against the plain reference loops of tests/common/engines.rs, for
-/// `channels` channels processed in blocks of `frames` frames.
+/// The engine's output and overflow count for `channels` channels processed in blocks
+/// of `frames` frames; the scalar kernel only when `baseline`.
 fn fixed_engine_in_blocks(
     fixed: &FixedCascade,
     channels: usize,
     x: &[i32],
     frames: usize,
+    baseline: bool,
 ) -> (Vec<i32>, u64) {
     let mut e = FixedEngine::new(fixed, channels).unwrap();
+    if baseline {
+        e = e.baseline();
+    }
     let mut y = x.to_vec();
     for block in y.chunks_mut(frames * channels) {
         e.process(block).unwrap();
@@ -512,9 +516,12 @@ proptest! {
         let mut want = x.clone();
         let want_overflows = reference::fixed_cascade(&fixed, channels, &mut want);
         for frames in [1usize, 63, 64, 65, 700] {
-            let (got, overflows) = fixed_engine_in_blocks(&fixed, channels, &x, frames);
-            prop_assert_eq!(&got, &want, "{} frames per block", frames);
-            prop_assert_eq!(overflows, want_overflows, "{} frames per block", frames);
+            for baseline in [false, true] {
+                let (got, overflows) =
+                    fixed_engine_in_blocks(&fixed, channels, &x, frames, baseline);
+                prop_assert_eq!(&got, &want, "{} frames per block, baseline {}", frames, baseline);
+                prop_assert_eq!(overflows, want_overflows, "{} frames, baseline {}", frames, baseline);
+            }
         }
     }
 
@@ -607,6 +614,58 @@ fn float_engines_equal_the_plain_loops_over_passes_and_waves() {
 }
 
 #[test]
+fn fixed_kernels_equal_the_literal_arithmetic_over_passes_and_waves() {
+    // The AVX2 kernel cuts a block into passes of 2048 frames and the cascade into
+    // waves of at most 8 sections, and redoes a wave whose sums leave their fast
+    // range. 13 sections (two waves, passing lanes), 5000 frames in blocks longer and
+    // shorter than a pass, a loud stretch that drives only the second wave (gain on
+    // its first section) into saturation or wrap, every format family and structure,
+    // both kernels.
+    let sections: Vec<Sos> = (0..13)
+        .map(|k| {
+            let f = 0.03 + 0.9 * f64::from(k) / 13.0;
+            let g = if k == 7 { 6.0 } else { 0.3 };
+            section((0.95, f * PI), (0.9, (1.0 - f) * PI), g)
+        })
+        .collect();
+    let c = Cascade { rate: RATE, sections };
+    let mut cases = 0;
+    for format in [FixedFormat::q15(), FixedFormat::q23(), FixedFormat::q31()] {
+        for (structure, ef) in [(Structure::Df1, 0), (Structure::Df1, 2), (Structure::Df2t, 0)] {
+            for (rounding, overflow) in
+                [(Rounding::Nearest, Overflow::Saturate), (Rounding::Even, Overflow::Wrap)]
+            {
+                let format = FixedFormat { rounding, overflow, error_feedback: ef, ..format };
+                let fixed = quantize(&c, &format, structure).unwrap();
+                let scale = SampleScale::new(format.data_bits).unwrap();
+                let mut x = exacting_input(scale, 5000, 1, 7);
+                // Quiet except for one loud stretch.
+                for (i, v) in x.iter_mut().enumerate() {
+                    if !(2500..2600).contains(&i) {
+                        *v /= 64;
+                    }
+                }
+                let mut want = x.clone();
+                let want_overflows = reference::fixed_cascade(&fixed, 1, &mut want);
+                for frames in [5000, 2047, 2049] {
+                    for baseline in [false, true] {
+                        let (got, overflows) =
+                            fixed_engine_in_blocks(&fixed, 1, &x, frames, baseline);
+                        let case = format!("{format:?} {structure:?} {frames} {baseline}");
+                        assert!(got == want, "output differs: {case}");
+                        assert_eq!(overflows, want_overflows, "{case}");
+                    }
+                }
+                cases += usize::from(want_overflows > 0);
+            }
+        }
+    }
+    // The loud stretch must reach the exact path in most cases, or the test would not
+    // cover the redone waves.
+    assert!(cases >= 6, "only {cases} cases overflowed");
+}
+
+#[test]
 fn q31_sums_that_overflow_64_bits_saturate_and_wrap_exactly() {
     // Five products of up to 2^62 each pass i64: the overflow-checked sum must fall
     // back to exact arithmetic. Coefficients near ±1.99 in Q2.30 with full-scale input.
@@ -621,7 +680,7 @@ fn q31_sums_that_overflow_64_bits_saturate_and_wrap_exactly() {
             let mut want = x.clone();
             let want_overflows = reference::fixed_cascade(&fixed, 2, &mut want);
             assert!(want_overflows > 0, "{overflow:?} {structure}: no overflow exercised");
-            let (got, overflows) = fixed_engine_in_blocks(&fixed, 2, &x, 100);
+            let (got, overflows) = fixed_engine_in_blocks(&fixed, 2, &x, 100, false);
             assert_eq!(got, want, "{overflow:?} {structure}");
             assert_eq!(overflows, want_overflows, "{overflow:?} {structure}");
         }
@@ -658,7 +717,7 @@ fn gains_one_lsb_either_side_of_one_narrow_exactly_at_the_edges_of_the_data_word
                         // One-frame blocks: a block that overflows anywhere runs
                         // exactly throughout, so each sample needs its own block here.
                         for frames in [1, 5] {
-                            let (got, n) = fixed_engine_in_blocks(&fixed, 1, &x, frames);
+                            let (got, n) = fixed_engine_in_blocks(&fixed, 1, &x, frames, false);
                             let what = format!("{format:?} {structure} gain {g} by {frames}");
                             assert_eq!((&got, n), (&want, want_overflows), "{what}");
                         }

@@ -5,6 +5,9 @@ use super::{check_channels, check_frames, Engine};
 use crate::error::Result;
 use crate::quantize::{FixedCascade, Overflow, Rounding, Structure};
 
+#[cfg(target_arch = "x86_64")]
+mod wavefront;
+
 /// Runs a [`FixedCascade`] on integer samples exactly as a target does.
 ///
 /// Notation: `D` = data_bits, `A` = acc_bits, `F` = coef_frac; per section the stored
@@ -68,6 +71,7 @@ pub struct FixedEngine {
     /// Per channel, per section: df1 x1, x2, y1, y2, e1, e2; df2t s1, s2, then unused.
     state: Vec<[i64; 6]>,
     overflows: u64,
+    choice: Choice,
     kernel: Kernel,
 }
 
@@ -351,8 +355,7 @@ fn exact<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, con
     }
 }
 
-/// The cascade over channel `ch` of an `n`-channel buffer, block by block, section
-/// groups as equal in size as possible, passing the block between two buffers.
+/// The cascade over channel `ch` of an `n`-channel buffer, block by block.
 fn run<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
     p: &Params,
     secs: &[SectionCoefs],
@@ -362,25 +365,14 @@ fn run<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const
     n: usize,
 ) -> u64 {
     let mut count = 0;
-    let (mut one, mut two) = ([0i64; BLOCK], [0i64; BLOCK]);
-    let ns = secs.len();
-    let groups = ns.div_ceil(GROUP);
+    let mut buf = [0i64; BLOCK];
     for chunk in samples.chunks_mut(BLOCK * n) {
-        let m = chunk.len() / n;
-        let (mut a, mut b) = (&mut one[..m], &mut two[..m]);
-        for (v, frame) in a.iter_mut().zip(chunk.chunks_exact(n)) {
+        let buf = &mut buf[..chunk.len() / n];
+        for (v, frame) in buf.iter_mut().zip(chunk.chunks_exact(n)) {
             *v = fit_data::<SAT>(i64::from(frame[ch]), p, &mut count);
         }
-        let mut k = 0;
-        for g in 0..groups {
-            // The first ns % groups groups take one section more.
-            let size = ns / groups + usize::from(g < ns % groups);
-            let (secs, state) = (&secs[k..k + size], &mut state[k..k + size]);
-            group::<SAT, EVEN, EF, DF2T, WIDE>(size, p, secs, state, (a, b), &mut count);
-            std::mem::swap(&mut a, &mut b);
-            k += size;
-        }
-        for (v, frame) in a.iter().zip(chunk.chunks_exact_mut(n)) {
+        blocks::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, buf, &mut count);
+        for (v, frame) in buf.iter().zip(chunk.chunks_exact_mut(n)) {
             // Every value fits the data word, which is at most 32 bits wide.
             frame[ch] = *v as i32;
         }
@@ -388,27 +380,120 @@ fn run<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const
     count
 }
 
-/// The kernel for a structure and error feedback order, given the other choices.
-fn pick_structure<const SAT: bool, const EVEN: bool, const WIDE: bool>(
-    structure: Structure,
-    ef: u32,
-) -> Kernel {
-    match (structure, ef) {
-        (Structure::Df1, 0) => run::<SAT, EVEN, 0, false, WIDE>,
-        (Structure::Df1, 1) => run::<SAT, EVEN, 1, false, WIDE>,
-        (Structure::Df1, _) => run::<SAT, EVEN, 2, false, WIDE>,
-        (Structure::Df2t, _) => run::<SAT, EVEN, 0, true, WIDE>,
+/// The sections `secs` over samples already fitted to the data word, in place, block
+/// by block; section groups as equal in size as possible pass each block between two
+/// buffers.
+fn blocks<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
+    p: &Params,
+    secs: &[SectionCoefs],
+    state: &mut [[i64; 6]],
+    samples: &mut [i64],
+    count: &mut u64,
+) {
+    let mut other = [0i64; BLOCK];
+    let ns = secs.len();
+    let groups = ns.div_ceil(GROUP);
+    for chunk in samples.chunks_mut(BLOCK) {
+        let len = chunk.len();
+        let (mut a, mut b) = (&mut *chunk, &mut other[..len]);
+        let mut k = 0;
+        for g in 0..groups {
+            // The first ns % groups groups take one section more.
+            let size = ns / groups + usize::from(g < ns % groups);
+            let (secs, state) = (&secs[k..k + size], &mut state[k..k + size]);
+            group::<SAT, EVEN, EF, DF2T, WIDE>(size, p, secs, state, (a, b), count);
+            std::mem::swap(&mut a, &mut b);
+            k += size;
+        }
+        if groups % 2 == 1 {
+            chunk.copy_from_slice(&other[..len]);
+        }
     }
 }
 
-/// The kernel for a word width, given overflow, rounding, structure and feedback.
-fn pick_word<const WIDE: bool>(sat: bool, even: bool, structure: Structure, ef: u32) -> Kernel {
-    match (sat, even) {
-        (true, true) => pick_structure::<true, true, WIDE>(structure, ef),
-        (true, false) => pick_structure::<true, false, WIDE>(structure, ef),
-        (false, true) => pick_structure::<false, true, WIDE>(structure, ef),
-        (false, false) => pick_structure::<false, false, WIDE>(structure, ef),
+/// [`wavefront::run`] behind a safe signature; only [`Choice::kernel`] hands it out,
+/// and only with `avx2` set after run-time detection.
+#[cfg(target_arch = "x86_64")]
+fn wavefront_checked<
+    const SAT: bool,
+    const EVEN: bool,
+    const EF: u32,
+    const DF2T: bool,
+    const WIDE: bool,
+>(
+    p: &Params,
+    secs: &[SectionCoefs],
+    state: &mut [[i64; 6]],
+    samples: &mut [i32],
+    ch: usize,
+    n: usize,
+) -> u64 {
+    // SAFETY: reachable only when the processor has AVX2 (above).
+    unsafe { wavefront::run::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, samples, ch, n) }
+}
+
+/// The scalar kernel, or on AVX2 the wavefront.
+fn build<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
+    avx2: bool,
+) -> Kernel {
+    #[cfg(target_arch = "x86_64")]
+    if avx2 {
+        return wavefront_checked::<SAT, EVEN, EF, DF2T, WIDE>;
     }
+    let _ = avx2;
+    run::<SAT, EVEN, EF, DF2T, WIDE>
+}
+
+/// The choices of a format that pick a kernel.
+#[derive(Debug, Clone, Copy)]
+struct Choice {
+    sat: bool,
+    even: bool,
+    structure: Structure,
+    error_feedback: u32,
+    /// A 64-bit accumulator (sums checked for overflow).
+    wide: bool,
+}
+
+impl Choice {
+    /// The kernel for these choices, the AVX2 one when `avx2`.
+    fn kernel(self, avx2: bool) -> Kernel {
+        match (self.sat, self.even) {
+            (true, true) => self.word::<true, true>(avx2),
+            (true, false) => self.word::<true, false>(avx2),
+            (false, true) => self.word::<false, true>(avx2),
+            (false, false) => self.word::<false, false>(avx2),
+        }
+    }
+
+    fn word<const SAT: bool, const EVEN: bool>(self, avx2: bool) -> Kernel {
+        if self.wide {
+            self.structure::<SAT, EVEN, true>(avx2)
+        } else {
+            self.structure::<SAT, EVEN, false>(avx2)
+        }
+    }
+
+    fn structure<const SAT: bool, const EVEN: bool, const WIDE: bool>(self, avx2: bool) -> Kernel {
+        match (self.structure, self.error_feedback) {
+            (Structure::Df1, 0) => build::<SAT, EVEN, 0, false, WIDE>(avx2),
+            (Structure::Df1, 1) => build::<SAT, EVEN, 1, false, WIDE>(avx2),
+            (Structure::Df1, _) => build::<SAT, EVEN, 2, false, WIDE>(avx2),
+            (Structure::Df2t, _) => build::<SAT, EVEN, 0, true, WIDE>(avx2),
+        }
+    }
+}
+
+/// Whether this x86-64 processor runs AVX2 instructions.
+#[cfg(target_arch = "x86_64")]
+fn avx2_detected() -> bool {
+    std::is_x86_feature_detected!("avx2")
+}
+
+/// No AVX2 kernels off x86-64.
+#[cfg(not(target_arch = "x86_64"))]
+fn avx2_detected() -> bool {
+    false
 }
 
 impl FixedEngine {
@@ -463,15 +548,24 @@ impl FixedEngine {
                 }
             })
             .collect();
-        let (sat, even) = (f.overflow == Overflow::Saturate, f.rounding == Rounding::Even);
-        // Sums fit i64 while A ≤ 56 (then coef_bits + data_bits ≤ 56, see the doc).
-        let kernel = if f.acc_bits <= 56 {
-            pick_word::<false>(sat, even, fixed.structure, f.error_feedback)
-        } else {
-            pick_word::<true>(sat, even, fixed.structure, f.error_feedback)
+        let choice = Choice {
+            sat: f.overflow == Overflow::Saturate,
+            even: f.rounding == Rounding::Even,
+            structure: fixed.structure,
+            error_feedback: f.error_feedback,
+            // Sums fit i64 while A ≤ 56 (then coef_bits + data_bits ≤ 56, see the doc).
+            wide: f.acc_bits > 56,
         };
         let state = vec![[0; 6]; sections.len() * channels];
-        Ok(Self { channels, params, sections, state, overflows: 0, kernel })
+        let kernel = choice.kernel(avx2_detected());
+        Ok(Self { channels, params, sections, state, overflows: 0, choice, kernel })
+    }
+
+    /// The same engine with the scalar kernel only, even where AVX2 is available. The
+    /// output and overflow count are identical; only the speed differs.
+    pub fn baseline(mut self) -> Self {
+        self.kernel = self.choice.kernel(false);
+        self
     }
 
     /// Overflow events (saturations or wraps that changed a value) since construction

@@ -1,0 +1,442 @@
+//! The fixed-point fast path of one channel as an AVX2 wavefront: one section per
+//! 64-bit lane.
+//!
+//! The schedule of the float wavefront (lane k holds section k and runs sample t − k
+//! at step t; H. T. Kung, "Why systolic architectures?", IEEE Computer 15(1), 1982)
+//! applied to the fast path of [`super::sections`]: every sum is formed exactly in
+//! 64-bit lanes (products of a coefficient and a sample of at most 32 bits each, by
+//! `vpmuldq`; with a 64-bit accumulator every addition is checked for overflow), and
+//! a lane whose sum leaves its overflow-free range marks the wave. A marked wave is
+//! run again from its saved states and input by the scalar path, which is exact; an
+//! unmarked one has done only fits that are the identity, so both paths agree bit
+//! for bit (tests/fixed_point.rs compares them with the literal arithmetic).
+
+use super::{blocks, fit_data, Params, SectionCoefs};
+use std::arch::x86_64::{
+    __m256i, _mm256_add_epi64, _mm256_and_si256, _mm256_blend_epi32, _mm256_blendv_epi8,
+    _mm256_castsi256_pd, _mm256_cmpgt_epi64, _mm256_extract_epi64, _mm256_loadu_si256,
+    _mm256_movemask_pd, _mm256_mul_epi32, _mm256_or_si256, _mm256_permute4x64_epi64,
+    _mm256_set1_epi64x, _mm256_setzero_si256, _mm256_sllv_epi64, _mm256_srlv_epi64,
+    _mm256_storeu_si256, _mm256_sub_epi64, _mm256_xor_si256,
+};
+
+/// Frames per pass: a marked wave redoes one pass; the 2 (lanes − 1) masked steps that
+/// fill and drain it are under 3 % of the steps for 8 sections.
+const PASS: usize = 2048;
+
+/// Sections per wave: two registers of four 64-bit lanes per state.
+const WAVE: usize = 8;
+
+/// The cascade over channel `ch` of an `n`-channel buffer, pass by pass and wave by
+/// wave; returns the overflow events (only the scalar path meets any).
+#[target_feature(enable = "avx2")]
+pub(super) fn run<
+    const SAT: bool,
+    const EVEN: bool,
+    const EF: u32,
+    const DF2T: bool,
+    const WIDE: bool,
+>(
+    p: &Params,
+    secs: &[SectionCoefs],
+    state: &mut [[i64; 6]],
+    samples: &mut [i32],
+    ch: usize,
+    n: usize,
+) -> u64 {
+    let mut count = 0;
+    let (mut buf, mut before) = ([0i64; PASS], [0i64; PASS]);
+    let ns = secs.len();
+    let waves = ns.div_ceil(WAVE);
+    for pass in samples.chunks_mut(PASS * n) {
+        let m = pass.len() / n;
+        let (buf, before) = (&mut buf[..m], &mut before[..m]);
+        for (v, frame) in buf.iter_mut().zip(pass.chunks_exact(n)) {
+            *v = fit_data::<SAT>(i64::from(frame[ch]), p, &mut count);
+        }
+        let mut k = 0;
+        for w in 0..waves {
+            // The first ns % waves waves take one section more.
+            let size = ns / waves + usize::from(w < ns % waves);
+            let (secs, state) = (&secs[k..k + size], &mut state[k..k + size]);
+            let saved: [[i64; 6]; WAVE] =
+                std::array::from_fn(|i| state.get(i).copied().unwrap_or_default());
+            before.copy_from_slice(buf);
+            let done = match size {
+                4 => wave::<1, false, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
+                8 => wave::<2, false, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
+                1..=3 => wave::<1, true, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
+                _ => wave::<2, true, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
+            };
+            if !done {
+                state.copy_from_slice(&saved[..size]);
+                buf.copy_from_slice(before);
+                blocks::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, buf, &mut count);
+            }
+            k += size;
+        }
+        for (v, frame) in buf.iter().zip(pass.chunks_exact_mut(n)) {
+            // Every value fits the data word, which is at most 32 bits wide.
+            frame[ch] = *v as i32;
+        }
+    }
+    count
+}
+
+/// Registers of one wave: `V` registers of four 64-bit lanes.
+type Regs<const V: usize> = [__m256i; V];
+
+/// What stays fixed over a pass of one wave: per lane the section's integers and
+/// narrowing constants (sections in the last lanes, the first `pad` lanes passing
+/// their input on untouched), and the accumulator's limits.
+struct Wave<const V: usize> {
+    pad: usize,
+    /// Frames in the pass.
+    m: usize,
+    /// All ones in the passing lanes; in the section lanes.
+    passing: Regs<V>,
+    holding: Regs<V>,
+    /// b0, b1, b2, a1, a2.
+    c: [Regs<V>; 5],
+    /// r, 2^r − 1, the rounding addend plus the bias of [`Wave::round`], the half-even
+    /// threshold, the fast range.
+    r: Regs<V>,
+    mask: Regs<V>,
+    biased_half: Regs<V>,
+    even_thr: Regs<V>,
+    fast_lo: Regs<V>,
+    fast_hi: Regs<V>,
+    acc_lo: __m256i,
+    acc_hi: __m256i,
+    /// The bias after the shift: 2^(D−1) = −data_lo.
+    unbias: __m256i,
+}
+
+/// States per lane: df1 x1, x2, y1, y2, e1, e2; df2t s1, s2 and four unused.
+type States<const V: usize> = [Regs<V>; 6];
+
+/// Runs the sections `secs` (as many as the lanes of `V` registers; fewer only when
+/// `PASSING`) over the pass in `buf`, in place. Returns false, with `state` and `buf`
+/// to be restored by the caller, when a sum left its overflow-free range.
+#[target_feature(enable = "avx2")]
+fn wave<
+    const V: usize,
+    const PASSING: bool,
+    const EVEN: bool,
+    const EF: u32,
+    const DF2T: bool,
+    const WIDE: bool,
+>(
+    p: &Params,
+    secs: &[SectionCoefs],
+    state: &mut [[i64; 6]],
+    buf: &mut [i64],
+) -> bool {
+    let lanes = 4 * V;
+    let pad = lanes - secs.len();
+    let m = buf.len();
+    // Lane values to registers, section k in lane pad + k.
+    let regs = |value: &dyn Fn(usize) -> i64| -> Regs<V> {
+        let mut a = [0i64; WAVE];
+        for (k, v) in a[pad..lanes].iter_mut().enumerate() {
+            *v = value(k);
+        }
+        std::array::from_fn(|v| load(&a[4 * v..]))
+    };
+    let lane_mask = |set: &dyn Fn(usize) -> bool| -> Regs<V> {
+        std::array::from_fn(|v| {
+            load(&std::array::from_fn::<i64, 4, _>(|l| -i64::from(set(4 * v + l))))
+        })
+    };
+    let wave = Wave::<V> {
+        pad,
+        m,
+        passing: lane_mask(&|l| l < pad),
+        holding: lane_mask(&|l| l >= pad),
+        c: std::array::from_fn(|i| regs(&|k| secs[k].c[i])),
+        r: regs(&|k| i64::from(secs[k].r)),
+        mask: regs(&|k| secs[k].mask),
+        biased_half: regs(&|k| secs[k].half - secs[k].fast_lo),
+        even_thr: regs(&|k| secs[k].even_thr),
+        fast_lo: regs(&|k| secs[k].fast_lo),
+        // Within i64: (data_hi − 1)·2^r (see `SectionCoefs`).
+        fast_hi: regs(&|k| secs[k].fast_lo.wrapping_add(secs[k].fast_span as i64)),
+        acc_lo: _mm256_set1_epi64x(p.acc_lo),
+        acc_hi: _mm256_set1_epi64x(p.acc_hi),
+        unbias: _mm256_set1_epi64x(-p.data_lo),
+    };
+    let mut s: States<V> = std::array::from_fn(|j| regs(&|k| state[k][j]));
+    let mut x: Regs<V> = [_mm256_set1_epi64x(buf[0]); V];
+    let mut bad = _mm256_setzero_si256();
+    let body = lanes - 1..(m - 1).max(lanes - 1);
+    for t in 0..body.start {
+        wave.step::<true, PASSING, EVEN, EF, DF2T, WIDE>(&mut s, &mut x, &mut bad, buf, t);
+    }
+    for t in body.clone() {
+        wave.step::<false, PASSING, EVEN, EF, DF2T, WIDE>(&mut s, &mut x, &mut bad, buf, t);
+    }
+    for t in body.end..m + lanes - 1 {
+        wave.step::<true, PASSING, EVEN, EF, DF2T, WIDE>(&mut s, &mut x, &mut bad, buf, t);
+    }
+    if _mm256_movemask_pd(_mm256_castsi256_pd(bad)) != 0 {
+        return false;
+    }
+    for (j, r) in s.iter().enumerate() {
+        let mut a = [0i64; WAVE];
+        for (v, reg) in r.iter().enumerate() {
+            store(&mut a[4 * v..], *reg);
+        }
+        for (k, st) in state.iter_mut().enumerate() {
+            st[j] = a[pad + k];
+        }
+    }
+    if !DF2T && EF == 0 {
+        // As the scalar path: without feedback each sample shifts e1 to e2 and
+        // stores e1 = 0.
+        for st in state.iter_mut() {
+            st[5] = if m == 1 { st[4] } else { 0 };
+            st[4] = 0;
+        }
+    }
+    true
+}
+
+impl<const V: usize> Wave<V> {
+    /// Step `t`: lane l runs sample t − l. `MASKED` outside the body: lanes without a
+    /// sample keep their states and mark nothing. Writes the last lane's output and
+    /// moves every lane's output (or passed input) to the next lane. Marks `bad` (sign
+    /// bit) where a sum left its range or an addition overflowed.
+    #[inline]
+    #[target_feature(enable = "avx2")]
+    fn step<
+        const MASKED: bool,
+        const PASSING: bool,
+        const EVEN: bool,
+        const EF: u32,
+        const DF2T: bool,
+        const WIDE: bool,
+    >(
+        &self,
+        s: &mut States<V>,
+        x: &mut Regs<V>,
+        bad: &mut __m256i,
+        buf: &mut [i64],
+        t: usize,
+    ) {
+        let (lanes, m, pad) = (4 * V, self.m, self.pad);
+        let [b0, b1, b2, a1, a2] = &self.c;
+        let mut out = [_mm256_setzero_si256(); V];
+        for v in 0..V {
+            // Lanes that may mark: those with a sample, or outside the passing ones.
+            let (counted, active) = if MASKED {
+                let a = load(&std::array::from_fn::<i64, 4, _>(|l| {
+                    let l = 4 * v + l;
+                    -i64::from(l >= pad && l <= t && t - l < m)
+                }));
+                (a, a)
+            } else {
+                (self.holding[v], _mm256_set1_epi64x(-1))
+            };
+            let mut marks = _mm256_setzero_si256();
+            let xv = x[v];
+            let y;
+            if DF2T {
+                let acc = add::<WIDE>(mul(b0[v], xv), s[0][v], &mut marks);
+                marks = _mm256_or_si256(marks, outside(acc, self.fast_lo[v], self.fast_hi[v]));
+                y = self.round::<EVEN>(acc, v);
+                let n1 = add::<WIDE>(sub(mul(b1[v], xv), mul(a1[v], y)), s[1][v], &mut marks);
+                let n2 = sub(mul(b2[v], xv), mul(a2[v], y));
+                if !WIDE {
+                    marks = _mm256_or_si256(marks, outside(n1, self.acc_lo, self.acc_hi));
+                    marks = _mm256_or_si256(marks, outside(n2, self.acc_lo, self.acc_hi));
+                }
+                s[0][v] = keep::<MASKED>(s[0][v], n1, active);
+                s[1][v] = keep::<MASKED>(s[1][v], n2, active);
+            } else {
+                // The sample's own product last: it waits on the previous lane.
+                let mut sum = add::<WIDE>(mul(b1[v], s[0][v]), mul(b2[v], s[1][v]), &mut marks);
+                sum = subtract::<WIDE>(sum, mul(a1[v], s[2][v]), &mut marks);
+                sum = subtract::<WIDE>(sum, mul(a2[v], s[3][v]), &mut marks);
+                match EF {
+                    0 => {}
+                    1 => sum = add::<WIDE>(sum, s[4][v], &mut marks),
+                    _ => {
+                        // |e| ≤ 2^r: 2·e1 − e2 is exact.
+                        let fb = sub(_mm256_add_epi64(s[4][v], s[4][v]), s[5][v]);
+                        sum = add::<WIDE>(sum, fb, &mut marks);
+                    }
+                }
+                sum = add::<WIDE>(sum, mul(b0[v], xv), &mut marks);
+                marks = _mm256_or_si256(marks, outside(sum, self.fast_lo[v], self.fast_hi[v]));
+                y = self.round::<EVEN>(sum, v);
+                let mut next = [xv, s[0][v], y, s[2][v], s[4][v], s[5][v]];
+                if EF > 0 {
+                    next[4] = sub(sum, _mm256_sllv_epi64(y, self.r[v]));
+                    next[5] = s[4][v];
+                }
+                for (st, nx) in s.iter_mut().zip(next) {
+                    st[v] = keep::<MASKED>(st[v], nx, active);
+                }
+            }
+            *bad = _mm256_or_si256(*bad, _mm256_and_si256(marks, counted));
+            let o = if PASSING { _mm256_blendv_epi8(y, xv, self.passing[v]) } else { y };
+            // [o0, o1, o2, o3] -> [o3, o0, o1, o2].
+            out[v] = _mm256_permute4x64_epi64::<0b10_01_00_11>(o);
+        }
+        if !MASKED || t + 1 >= lanes {
+            buf[t + 1 - lanes] = _mm256_extract_epi64::<0>(out[V - 1]);
+        }
+        let next = if !MASKED || t + 1 < m { buf[t + 1] } else { 0 };
+        // Lane 0 (two 32-bit halves) from the previous register's last lane.
+        x[0] = _mm256_blend_epi32::<0b11>(out[0], _mm256_set1_epi64x(next));
+        for v in 1..V {
+            x[v] = _mm256_blend_epi32::<0b11>(out[v], out[v - 1]);
+        }
+    }
+
+    /// round_r of lane `v`'s sums. Where a sum lies in the fast range, adding the
+    /// bias −fast_lo = 2^(D−1+r) makes it non-negative (and keeps it below 2^63), so a
+    /// logical shift floors it; the bias comes off after the shift as 2^(D−1). Nearest
+    /// and floor add their addend first; even rounds the dropped bits apart. Lanes
+    /// outside the fast range get values nobody keeps.
+    #[inline]
+    #[target_feature(enable = "avx2")]
+    fn round<const EVEN: bool>(&self, sum: __m256i, v: usize) -> __m256i {
+        let floor = |biased: __m256i| sub(_mm256_srlv_epi64(biased, self.r[v]), self.unbias);
+        if EVEN {
+            let q = floor(sub(sum, self.fast_lo[v]));
+            let odd = _mm256_and_si256(q, _mm256_set1_epi64x(1));
+            let dropped = _mm256_add_epi64(_mm256_and_si256(sum, self.mask[v]), odd);
+            // The comparison is −1 where the quotient rounds up.
+            sub(q, _mm256_cmpgt_epi64(dropped, self.even_thr[v]))
+        } else {
+            floor(_mm256_add_epi64(sum, self.biased_half[v]))
+        }
+    }
+}
+
+/// `new` in the `active` lanes, `old` elsewhere; `new` everywhere unless `MASKED`.
+#[inline]
+#[target_feature(enable = "avx2")]
+fn keep<const MASKED: bool>(old: __m256i, new: __m256i, active: __m256i) -> __m256i {
+    if MASKED {
+        _mm256_blendv_epi8(old, new, active)
+    } else {
+        new
+    }
+}
+
+/// The first four values of `a`.
+#[inline]
+#[target_feature(enable = "avx2")]
+fn load(a: &[i64]) -> __m256i {
+    // SAFETY: the slice holds at least four values (checked by indexing).
+    unsafe { _mm256_loadu_si256(a[..4].as_ptr().cast()) }
+}
+
+/// Writes the lanes to the first four values of `a`.
+#[inline]
+#[target_feature(enable = "avx2")]
+fn store(a: &mut [i64], r: __m256i) {
+    // SAFETY: the slice holds at least four values (checked by indexing).
+    unsafe { _mm256_storeu_si256(a[..4].as_mut_ptr().cast(), r) }
+}
+
+/// Products of the low 32 bits of each lane, signed, exact in 64 bits.
+#[inline]
+#[target_feature(enable = "avx2")]
+fn mul(a: __m256i, b: __m256i) -> __m256i {
+    _mm256_mul_epi32(a, b)
+}
+
+/// a − b, wrapping; used where it cannot overflow.
+#[inline]
+#[target_feature(enable = "avx2")]
+fn sub(a: __m256i, b: __m256i) -> __m256i {
+    _mm256_sub_epi64(a, b)
+}
+
+/// a + b; with `WIDE` the sign bit of `marks` is set where it overflowed.
+#[inline]
+#[target_feature(enable = "avx2")]
+fn add<const WIDE: bool>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __m256i {
+    let r = _mm256_add_epi64(a, b);
+    if WIDE {
+        // Overflow: a and b of one sign, r of the other.
+        let o = _mm256_and_si256(_mm256_xor_si256(a, r), _mm256_xor_si256(b, r));
+        *marks = _mm256_or_si256(*marks, o);
+    }
+    r
+}
+
+/// a − b; with `WIDE` the sign bit of `marks` is set where it overflowed.
+#[inline]
+#[target_feature(enable = "avx2")]
+fn subtract<const WIDE: bool>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __m256i {
+    let r = _mm256_sub_epi64(a, b);
+    if WIDE {
+        // Overflow: a and b of different signs, r of b's sign.
+        let o = _mm256_and_si256(_mm256_xor_si256(a, b), _mm256_xor_si256(a, r));
+        *marks = _mm256_or_si256(*marks, o);
+    }
+    r
+}
+
+/// All ones where `v` is below `lo` or above `hi`.
+#[inline]
+#[target_feature(enable = "avx2")]
+fn outside(v: __m256i, lo: __m256i, hi: __m256i) -> __m256i {
+    _mm256_or_si256(_mm256_cmpgt_epi64(lo, v), _mm256_cmpgt_epi64(v, hi))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::audio::dither::SplitMix64;
+
+    /// The overflow marks of the 64-bit sums, which only a sum that wraps back into
+    /// the fast range would otherwise let through, against `i64::checked_add` and
+    /// `checked_sub`: the ends of the range, and random values of every magnitude.
+    #[test]
+    fn wide_sums_mark_exactly_the_additions_that_overflow() {
+        if !std::is_x86_feature_detected!("avx2") {
+            return;
+        }
+        let ends = [i64::MIN, i64::MIN + 1, -1, 0, 1, i64::MAX - 1, i64::MAX, 1 << 62, -(1 << 62)];
+        let mut rng = SplitMix64::new(3);
+        let random = (0..4000).map(|_| (rng.next_u64() as i64) >> (rng.next_u64() % 4));
+        let values: Vec<i64> = ends.into_iter().chain(random).collect();
+        for (pair, b) in
+            values.chunks_exact(4).zip(values.iter().rev().collect::<Vec<_>>().chunks_exact(4))
+        {
+            let b: [i64; 4] = std::array::from_fn(|l| *b[l]);
+            // SAFETY: AVX2 was detected above.
+            let (sums, differences) = unsafe { marked(pair, &b) };
+            for l in 0..4 {
+                assert_eq!(sums[l], pair[l].checked_add(b[l]).is_none(), "{} + {}", pair[l], b[l]);
+                assert_eq!(
+                    differences[l],
+                    pair[l].checked_sub(b[l]).is_none(),
+                    "{} - {}",
+                    pair[l],
+                    b[l]
+                );
+            }
+        }
+    }
+
+    /// Whether [`add`] and [`subtract`] mark each lane of `a` and `b`.
+    #[target_feature(enable = "avx2")]
+    fn marked(a: &[i64], b: &[i64; 4]) -> ([bool; 4], [bool; 4]) {
+        let (a, b) = (load(a), load(b));
+        let lanes = |marks: __m256i| {
+            let mut m = [0i64; 4];
+            store(&mut m, marks);
+            m.map(|v| v < 0)
+        };
+        let (mut plus, mut minus) = (_mm256_setzero_si256(), _mm256_setzero_si256());
+        add::<true>(a, b, &mut plus);
+        subtract::<true>(a, b, &mut minus);
+        (lanes(plus), lanes(minus))
+    }
+}
