@@ -215,23 +215,24 @@ fn encode<const BYTES: usize, const BITS: u32>(
     mut dither: impl FnMut() -> f64,
 ) {
     let scale = 1.0 / int_step(BITS as u16);
-    let (lo, hi) = (-scale, scale - 1.0);
-    // Adding and removing 1.5·2^52 rounds to the nearest integer, ties to even, for
-    // |v| < 2^51 (IEEE 754 default rounding), without a libm call where the CPU has
-    // no rounding instruction; the clamp to one step beyond the codes keeps v there
-    // and leaves clipping and its count as they were.
-    const ROUND: f64 = 6_755_399_441_055_744.0;
+    // Adding 1.5·2^52, where one unit is the last mantissa bit, rounds v to the
+    // nearest integer, ties to even (IEEE 754 default rounding), for |v| < 2^51 and
+    // leaves that integer in two's complement in the low 32 bits of the sum. Clipping
+    // the sum to the offset extreme codes (exact) clips the code, so the loop needs no
+    // float-to-integer conversion and vectorises. Rounding is monotone: a larger |v|
+    // still lands beyond an extreme code and is clipped and counted.
+    const OFFSET: f64 = 6_755_399_441_055_744.0;
+    let (lo, hi) = (OFFSET - scale, OFFSET + scale - 1.0);
     let mut clipped = 0;
     for (b, &x) in out.chunks_exact_mut(BYTES).zip(samples) {
-        let v = (x * scale + dither()).clamp(lo - 1.0, hi + 1.0);
-        let code = (v + ROUND) - ROUND;
-        let c = code.clamp(lo, hi);
-        clipped += u64::from(c != code);
-        let c = c as i32;
+        let sum = x * scale + dither() + OFFSET;
+        let c = sum.clamp(lo, hi);
+        clipped += u64::from(c != sum);
+        let code = c.to_bits() as u32;
         if BYTES == 1 {
-            b[0] = (c + 128) as u8;
+            b[0] = code as u8 ^ 0x80;
         } else {
-            b.copy_from_slice(&c.to_le_bytes()[..BYTES]);
+            b.copy_from_slice(&code.to_le_bytes()[..BYTES]);
         }
     }
     *overs += clipped;
