@@ -622,6 +622,41 @@ fn failed_write_leaves_no_output_file() {
 }
 
 #[test]
+fn a_block_refused_for_a_nan_leaves_no_trace_in_any_format() {
+    // The writer searches for NaNs only in blocks with overs, where it counts a NaN,
+    // so NaNs come alone, beside an over and beside an infinity, in every format; the
+    // refused block must move neither the dither nor the counts.
+    let dir = scratch_dir("nan-refused");
+    let (before, after) = ([0.25, -1.5, 0.1], [0.3, 2.0, -0.7]);
+    for format in FORMATS {
+        let spec = WavSpec { channels: 1, rate: 8000, sample: format };
+        let seed = matches!(format, SampleFormat::Int { .. }).then_some(3);
+        let run = |bad: &[f64]| {
+            let path = dir.join("out.wav");
+            let mut w = WavWriter::create(&path, spec, &[]).unwrap();
+            if let Some(seed) = seed {
+                w = w.with_tpdf_dither(seed).unwrap();
+            }
+            w.write_block(&before).unwrap();
+            if !bad.is_empty() {
+                let err = w.write_block(bad).unwrap_err().to_string();
+                assert!(err.contains("not a number (nan) at frame 4, channel 0"), "{err}");
+            }
+            w.write_block(&after).unwrap();
+            let stats = w.finish().unwrap();
+            (stats, std::fs::read(&path).unwrap())
+        };
+        let clean = run(&[]);
+        assert_eq!(clean.0.overs, 2, "{format:?}");
+        for bad in
+            [[0.5, f64::NAN, 0.5], [1.5, f64::NAN, -f64::NAN], [0.0, -f64::NAN, f64::INFINITY]]
+        {
+            assert_eq!(run(&bad), clean, "{format:?} {bad:?}");
+        }
+    }
+}
+
+#[test]
 fn dither_is_refused_for_float_output_and_reproducible_for_integer_output() {
     let dir = scratch_dir("dither-seed");
     let float = WavSpec { channels: 1, rate: 8000, sample: SampleFormat::Float { bits: 32 } };

@@ -95,9 +95,8 @@ impl WavWriter {
     /// [`Error::Input`] for a float output, which is not dithered.
     pub fn with_tpdf_dither(mut self, seed: u64) -> Result<WavWriter> {
         if let SampleFormat::Float { bits } = self.spec.sample {
-            return Err(Error::input(format!(
-                "{}: tpdf dither applies to integer outputs, not {bits}-bit float",
-                self.file.target().display()
+            return Err(self.input_error(format!(
+                "tpdf dither applies to integer outputs, not {bits}-bit float"
             )));
         }
         self.dither = Some(TpdfDither::new(seed));
@@ -108,66 +107,74 @@ impl WavWriter {
     ///
     /// Integer outputs round to the nearest code (ties to even), after the dither if
     /// one was asked for, and clip to the extreme codes; float outputs store the value
-    /// (64-bit exactly, 32-bit rounded to nearest).
+    /// (64-bit exactly, 32-bit rounded to nearest). A refused block changes nothing,
+    /// the dither sequence included.
     ///
     /// # Errors
     /// [`Error::Input`] for a block that is not whole frames, a NaN sample, or a file
     /// that would pass the 4 GiB size limit of RIFF; [`Error::Io`] on a write failure.
     pub fn write_block(&mut self, samples: &[f64]) -> Result<()> {
-        let target = self.file.target().to_path_buf();
         let channels = usize::from(self.spec.channels);
         if samples.len() % channels != 0 {
-            return Err(Error::input(format!(
-                "{}: block of {} samples is not a whole number of {channels}-channel frames",
-                target.display(),
+            return Err(self.input_error(format!(
+                "block of {} samples is not a whole number of {channels}-channel frames",
                 samples.len()
             )));
         }
-        let new_bytes = (samples.len() * self.spec.sample.bytes()) as u64;
+        let new_bytes = samples.len() * self.spec.sample.bytes();
         // The RIFF size field counts everything after its own 8 bytes, pad byte included.
-        if self.header_bytes - 8 + self.data_bytes + new_bytes + 1 > u64::from(u32::MAX) {
-            return Err(Error::input(format!(
-                "{}: output exceeds the 4 GiB size limit of wav files",
-                target.display()
-            )));
-        }
-        if let Some(i) = samples.iter().position(|x| x.is_nan()) {
-            let frame = self.data_bytes / self.spec.block_align() as u64 + (i / channels) as u64;
-            return Err(Error::input(format!(
-                "{}: sample is not a number (nan) at frame {frame}, channel {}",
-                target.display(),
-                i % channels
-            )));
+        if self.header_bytes - 8 + self.data_bytes + new_bytes as u64 + 1 > u64::from(u32::MAX) {
+            return Err(self.input_error("output exceeds the 4 GiB size limit of wav files".into()));
         }
         self.scratch.clear();
-        self.scratch.resize(samples.len() * self.spec.sample.bytes(), 0);
-        let (out, dither, overs) = (&mut self.scratch, self.dither.as_mut(), &mut self.overs);
+        self.scratch.resize(new_bytes, 0);
+        let out = &mut self.scratch[..];
+        let mut dither = self.dither.clone();
         // One loop per codec (and per dither choice): no per-sample branching on format.
-        match (self.codec, dither) {
-            (Codec::U8, None) => encode::<1, 8>(samples, out, overs, || 0.0),
-            (Codec::U8, Some(d)) => encode::<1, 8>(samples, out, overs, || d.next_lsb()),
-            (Codec::I16, None) => encode::<2, 16>(samples, out, overs, || 0.0),
-            (Codec::I16, Some(d)) => encode::<2, 16>(samples, out, overs, || d.next_lsb()),
-            (Codec::I24, None) => encode::<3, 24>(samples, out, overs, || 0.0),
-            (Codec::I24, Some(d)) => encode::<3, 24>(samples, out, overs, || d.next_lsb()),
-            (Codec::I32, None) => encode::<4, 32>(samples, out, overs, || 0.0),
-            (Codec::I32, Some(d)) => encode::<4, 32>(samples, out, overs, || d.next_lsb()),
+        let overs = match (self.codec, dither.as_mut()) {
+            (Codec::U8, None) => encode::<1, 8>(samples, out, || 0.0),
+            (Codec::U8, Some(d)) => encode::<1, 8>(samples, out, || d.next_lsb()),
+            (Codec::I16, None) => encode::<2, 16>(samples, out, || 0.0),
+            (Codec::I16, Some(d)) => encode::<2, 16>(samples, out, || d.next_lsb()),
+            (Codec::I24, None) => encode::<3, 24>(samples, out, || 0.0),
+            (Codec::I24, Some(d)) => encode::<3, 24>(samples, out, || d.next_lsb()),
+            (Codec::I32, None) => encode::<4, 32>(samples, out, || 0.0),
+            (Codec::I32, Some(d)) => encode::<4, 32>(samples, out, || d.next_lsb()),
             (Codec::F32, _) => {
                 for (b, &x) in out.chunks_exact_mut(4).zip(samples) {
                     b.copy_from_slice(&(x as f32).to_le_bytes());
                 }
-                *overs += count_overs(samples);
+                count_overs(samples)
             }
             (Codec::F64, _) => {
                 for (b, &x) in out.chunks_exact_mut(8).zip(samples) {
                     b.copy_from_slice(&x.to_le_bytes());
                 }
-                *overs += count_overs(samples);
+                count_overs(samples)
+            }
+        };
+        // Every codec counts a NaN as an over, so only a block with overs needs the
+        // search, which then runs before anything of the block is written.
+        if overs > 0 {
+            if let Some(i) = samples.iter().position(|x| x.is_nan()) {
+                let frame =
+                    self.data_bytes / self.spec.block_align() as u64 + (i / channels) as u64;
+                return Err(self.input_error(format!(
+                    "sample is not a number (nan) at frame {frame}, channel {}",
+                    i % channels
+                )));
             }
         }
-        self.file.write_all(&self.scratch).map_err(|e| Error::io(&target, e))?;
-        self.data_bytes += new_bytes;
+        self.dither = dither;
+        self.file.write_all(&self.scratch).map_err(|e| Error::io(self.file.target(), e))?;
+        self.overs += overs;
+        self.data_bytes += new_bytes as u64;
         Ok(())
+    }
+
+    /// An input error naming the target.
+    fn input_error(&self, what: String) -> Error {
+        Error::input(format!("{}: {what}", self.file.target().display()))
     }
 
     /// Writes the pad byte and the final sizes, then renames the file into place.
@@ -198,22 +205,22 @@ impl WavWriter {
     }
 }
 
-/// Float samples beyond full scale.
+/// Float samples beyond full scale, NaN included.
 fn count_overs(samples: &[f64]) -> u64 {
-    samples.iter().map(|x| u64::from(x.abs() > 1.0)).sum()
+    samples.iter().map(|x| u64::from(x.abs() > 1.0 || x.is_nan())).sum()
 }
 
-/// Encodes non-NaN `samples` as `BITS`-bit integer codes of `BYTES` little-endian
-/// bytes (8-bit: unsigned, offset 128): each is scaled by 2^(BITS−1), dithered by
+/// Encodes `samples` as `BITS`-bit integer codes of `BYTES` little-endian bytes
+/// (8-bit: unsigned, offset 128): each is scaled by 2^(BITS−1), dithered by
 /// `dither()` LSB, rounded to the nearest code (ties to even) and clipped to the
-/// extreme codes, counting each clip in `overs`.
+/// extreme codes. Returns the number of clips, NaN samples included (their bytes are
+/// meaningless).
 #[inline(always)]
 fn encode<const BYTES: usize, const BITS: u32>(
     samples: &[f64],
     out: &mut [u8],
-    overs: &mut u64,
     mut dither: impl FnMut() -> f64,
-) {
+) -> u64 {
     let scale = 1.0 / int_step(BITS as u16);
     // Adding 1.5·2^52, where one unit is the last mantissa bit, rounds v to the
     // nearest integer, ties to even (IEEE 754 default rounding), for |v| < 2^51 and
@@ -226,6 +233,7 @@ fn encode<const BYTES: usize, const BITS: u32>(
     let mut clipped = 0;
     for (b, &x) in out.chunks_exact_mut(BYTES).zip(samples) {
         let sum = x * scale + dither() + OFFSET;
+        // A NaN sum stays NaN through the clamp and differs from itself: a clip.
         let c = sum.clamp(lo, hi);
         clipped += u64::from(c != sum);
         let code = c.to_bits() as u32;
@@ -235,7 +243,7 @@ fn encode<const BYTES: usize, const BITS: u32>(
             b.copy_from_slice(&code.to_le_bytes()[..BYTES]);
         }
     }
-    *overs += clipped;
+    clipped
 }
 
 /// The header bytes for `spec` with zero sizes, the offset of the `fact` sample count
