@@ -288,7 +288,7 @@ fn writer_stores_the_same_sample_bytes_as_hound_for_every_format_hound_writes() 
     }
 }
 
-/// Writes `samples` in blocks of 1, 7, 64 and 1000 frames and then the rest, so
+/// Writes `samples` in blocks of 1, 7, 64, 1000 and 8191 frames, over and over, so
 /// blocks end at odd places, with TPDF dither from `seed` if given.
 fn write_in_odd_blocks(
     path: &Path,
@@ -301,9 +301,11 @@ fn write_in_odd_blocks(
         writer = writer.with_tpdf_dither(seed).unwrap();
     }
     let mut rest = samples;
-    for frames in [1, 7, 64, 1000, usize::MAX] {
-        let (block, tail) =
-            rest.split_at(frames.saturating_mul(usize::from(spec.channels)).min(rest.len()));
+    for frames in [1, 7, 64, 1000, 8191].into_iter().cycle() {
+        if rest.is_empty() {
+            break;
+        }
+        let (block, tail) = rest.split_at((frames * usize::from(spec.channels)).min(rest.len()));
         writer.write_block(block).unwrap();
         rest = tail;
     }
@@ -324,6 +326,10 @@ fn hound_file(
     write(&mut w);
     w.finalize().unwrap();
 }
+
+/// Frames of the edge tests: odd, so 8-bit mono needs a pad byte, and enough that
+/// every layout spans several of the writer's write calls (of 256 KiB).
+const FRAMES: usize = 300_001;
 
 /// Samples on and beside every rounding and clipping edge of a `bits`-bit integer
 /// (ties, the extreme codes and half an LSB beyond them, 2^50 to 2^53 LSB where
@@ -363,13 +369,13 @@ fn literal_code(v: f64, bits: u16) -> (i64, bool) {
 #[test]
 fn integer_writer_stores_what_hound_stores_for_literally_rounded_codes_at_every_edge() {
     // The oracle adds the same seeded dither, rounds with round_ties_even and clips in
-    // i64; hound writes its codes. 1501 frames: odd, so 8-bit mono needs a pad byte.
+    // i64; hound writes its codes.
     let dir = scratch_dir("hound-edges");
     let (ours, theirs) = (dir.join("ours.wav"), dir.join("hound.wav"));
     for bits in [8u16, 16, 24, 32] {
         let scale = (1i64 << (bits - 1)) as f64;
         for channels in [1u16, 2, 3] {
-            let x = edge_samples(bits, 1501 * usize::from(channels));
+            let x = edge_samples(bits, FRAMES * usize::from(channels));
             for seed in [None, Some(11)] {
                 let mut dither = seed.map(TpdfDither::new);
                 let mut overs = 0;
@@ -384,7 +390,7 @@ fn integer_writer_stores_what_hound_stores_for_literally_rounded_codes_at_every_
                 let spec = WavSpec { channels, rate: 44_100, sample: SampleFormat::Int { bits } };
                 let stats = write_in_odd_blocks(&ours, spec, seed, &x);
                 let what = format!("{bits} bits, {channels} channels, dither {seed:?}");
-                assert_eq!((stats.frames, stats.overs), (1501, overs), "{what}");
+                assert_eq!((stats.frames, stats.overs), (FRAMES as u64, overs), "{what}");
                 assert_eq!(data_chunk(&ours), data_chunk(&theirs), "{what}");
             }
         }
@@ -401,7 +407,7 @@ fn float_writer_stores_what_hound_stores_beyond_full_scale_and_at_f32_edges() {
     let edges = [1.0 + f64::EPSILON, -1.5, 3.0, f32_max, f32_max * 1.000_000_1, 1e300, 1e-46];
     for channels in [1u16, 2, 3] {
         let mut x = edges.to_vec();
-        x.extend(edge_samples(24, 1501 * usize::from(channels) - edges.len()));
+        x.extend(edge_samples(24, FRAMES * usize::from(channels) - edges.len()));
         hound_file(&theirs, channels, hound::SampleFormat::Float, 32, |w| {
             for &s in &x {
                 w.write_sample(s as f32).unwrap();
@@ -410,7 +416,7 @@ fn float_writer_stores_what_hound_stores_beyond_full_scale_and_at_f32_edges() {
         let spec = WavSpec { channels, rate: 44_100, sample: SampleFormat::Float { bits: 32 } };
         let stats = write_in_odd_blocks(&ours, spec, None, &x);
         let overs = x.iter().filter(|s| s.abs() > 1.0).count() as u64;
-        assert_eq!((stats.frames, stats.overs), (1501, overs), "{channels} channels");
+        assert_eq!((stats.frames, stats.overs), (FRAMES as u64, overs), "{channels} channels");
         assert_eq!(data_chunk(&ours), data_chunk(&theirs), "{channels} channels");
     }
 }

