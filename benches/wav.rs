@@ -1,22 +1,34 @@
 //! WAV throughput beside hound, one run: 16-bit stereo, 60 s at 48 kHz (5.76 M
-//! samples) per iteration, in items/s where one item is one sample. Reading: our
-//! bulk decoder against hound's per-sample iterator; writing: our block writer
-//! (f64 in, rounded and clipped) against hound's per-sample `write_sample` and its
-//! faster `get_i16_writer`. Files go to the system temporary folder.
+//! samples) per iteration, in items/s where one item is one sample. Files go to the
+//! system temporary folder, and every write starts a new file there.
 //!
-//! Run: `cargo bench --bench wav`.
+//! - Reading: our bulk decoder against hound's per-sample iterator.
+//! - Writing, the sample path: from creating the file until the last block has gone
+//!   through the writer. Ours takes f64 blocks of the `apply` verb's size and rounds,
+//!   clips and counts overs; hound is handed the ready 16-bit codes (its best case),
+//!   one `write_sample` at a time or per block through its `get_i16_writer`. Removing
+//!   the previous file, and whatever a writer still buffers when the clock stops, are
+//!   not timed.
+//! - Committing: our [`WavWriter::finish`] alone on a fully written file: the
+//!   buffered rest, header sizes, fsync and rename onto the target. hound has no
+//!   durable commit, so this row has no hound counterpart.
+//!
+//! Run: `uptime; cargo bench --bench wav`.
 
 use divan::counter::ItemsCount;
 use divan::Bencher;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
+use tonewright::apply::BLOCK_FRAMES;
 use tonewright::audio::dither::SplitMix64;
 use tonewright::audio::{SampleFormat, WavReader, WavSpec, WavWriter};
 
 const SAMPLES: usize = 2 * 48_000 * 60;
-const BLOCK_FRAMES: usize = 4096;
 
 fn main() {
     divan::main();
+    for name in ["input", "hound", "hound16", "ours-committed"] {
+        remove(&path(name));
+    }
 }
 
 fn path(name: &str) -> PathBuf {
@@ -32,10 +44,17 @@ fn hound_spec() -> hound::WavSpec {
     }
 }
 
+const SPEC: WavSpec = WavSpec { channels: 2, rate: 48_000, sample: SampleFormat::Int { bits: 16 } };
+
 /// Seeded 16-bit codes.
 fn codes() -> Vec<i16> {
     let mut rng = SplitMix64::new(3);
     (0..SAMPLES).map(|_| rng.next_u64() as i16).collect()
+}
+
+/// The same samples as f64, which our writer takes.
+fn samples() -> Vec<f64> {
+    codes().iter().map(|&c| f64::from(c) / 32768.0).collect()
 }
 
 /// A 16-bit stereo file of seeded codes, written by hound.
@@ -49,7 +68,21 @@ fn input_file() -> PathBuf {
     p
 }
 
-#[divan::bench(sample_count = 10, sample_size = 1)]
+/// Our writer at `p` with every sample of `x` written.
+fn write_ours(p: &Path, x: &[f64]) -> WavWriter {
+    let mut w = WavWriter::create(p, SPEC, &[]).expect("create");
+    for block in x.chunks(2 * BLOCK_FRAMES) {
+        w.write_block(block).expect("write");
+    }
+    w
+}
+
+/// Removes a file left by an earlier iteration or benchmark.
+fn remove(p: &Path) {
+    let _ = std::fs::remove_file(p);
+}
+
+#[divan::bench(sample_count = 20, sample_size = 1)]
 fn read_tonewright(bencher: Bencher) {
     let p = input_file();
     bencher.counter(ItemsCount::new(SAMPLES)).bench_local(|| {
@@ -62,7 +95,7 @@ fn read_tonewright(bencher: Bencher) {
     });
 }
 
-#[divan::bench(sample_count = 10, sample_size = 1)]
+#[divan::bench(sample_count = 20, sample_size = 1)]
 fn read_hound_per_sample(bencher: Bencher) {
     let p = input_file();
     bencher.counter(ItemsCount::new(SAMPLES)).bench_local(|| {
@@ -71,54 +104,30 @@ fn read_hound_per_sample(bencher: Bencher) {
     });
 }
 
-#[divan::bench(sample_count = 10, sample_size = 1)]
+/// Dropping the unfinished writer (untimed) removes its temporary file.
+#[divan::bench(sample_count = 20, sample_size = 1)]
 fn write_tonewright(bencher: Bencher) {
-    let x: Vec<f64> = codes().iter().map(|&c| f64::from(c) / 32768.0).collect();
-    let (p, spec) = (
-        path("ours"),
-        WavSpec { channels: 2, rate: 48_000, sample: SampleFormat::Int { bits: 16 } },
-    );
-    bencher.counter(ItemsCount::new(SAMPLES)).bench_local(|| {
-        let mut w = WavWriter::create(&p, spec, &[]).expect("create");
-        for block in x.chunks(2 * BLOCK_FRAMES) {
-            w.write_block(block).expect("write");
-        }
-        w.finish().expect("finish")
-    });
+    let (x, p) = (samples(), path("ours"));
+    bencher.counter(ItemsCount::new(SAMPLES)).bench_local(|| write_ours(&p, &x));
 }
 
-/// The same without [`WavWriter::finish`], whose fsync (the file is durable before
-/// it is renamed into place) hound does not do: the encoder and buffered writes alone.
-#[divan::bench(sample_count = 10, sample_size = 1)]
-fn write_tonewright_without_fsync(bencher: Bencher) {
-    let x: Vec<f64> = codes().iter().map(|&c| f64::from(c) / 32768.0).collect();
-    let spec = WavSpec { channels: 2, rate: 48_000, sample: SampleFormat::Int { bits: 16 } };
-    let p = path("ours-unsynced");
-    bencher.counter(ItemsCount::new(SAMPLES)).bench_local(|| {
-        let mut w = WavWriter::create(&p, spec, &[]).expect("create");
-        for block in x.chunks(2 * BLOCK_FRAMES) {
-            w.write_block(block).expect("write");
+/// Dropping the writer (untimed) finalizes the file.
+#[divan::bench(sample_count = 20, sample_size = 1)]
+fn write_hound_per_sample(bencher: Bencher) {
+    let (c, p) = (codes(), path("hound"));
+    bencher.counter(ItemsCount::new(SAMPLES)).with_inputs(|| remove(&p)).bench_local_values(|()| {
+        let mut w = hound::WavWriter::create(&p, hound_spec()).expect("create");
+        for &s in &c {
+            w.write_sample(s).expect("write");
         }
         w
     });
 }
 
-#[divan::bench(sample_count = 10, sample_size = 1)]
-fn write_hound_per_sample(bencher: Bencher) {
-    let (c, p) = (codes(), path("hound"));
-    bencher.counter(ItemsCount::new(SAMPLES)).bench_local(|| {
-        let mut w = hound::WavWriter::create(&p, hound_spec()).expect("create");
-        for &s in &c {
-            w.write_sample(s).expect("write");
-        }
-        w.finalize().expect("finalize");
-    });
-}
-
-#[divan::bench(sample_count = 10, sample_size = 1)]
+#[divan::bench(sample_count = 20, sample_size = 1)]
 fn write_hound_i16_writer(bencher: Bencher) {
     let (c, p) = (codes(), path("hound16"));
-    bencher.counter(ItemsCount::new(SAMPLES)).bench_local(|| {
+    bencher.counter(ItemsCount::new(SAMPLES)).with_inputs(|| remove(&p)).bench_local_values(|()| {
         let mut w = hound::WavWriter::create(&p, hound_spec()).expect("create");
         for block in c.chunks(2 * BLOCK_FRAMES) {
             let mut f = w.get_i16_writer(block.len() as u32);
@@ -127,6 +136,16 @@ fn write_hound_i16_writer(bencher: Bencher) {
             }
             f.flush().expect("flush");
         }
-        w.finalize().expect("finalize");
+        w
     });
+}
+
+/// The durable commit of a written file, which replaces the previous iteration's.
+#[divan::bench(sample_count = 20, sample_size = 1)]
+fn commit_tonewright(bencher: Bencher) {
+    let (x, p) = (samples(), path("ours-committed"));
+    bencher
+        .counter(ItemsCount::new(SAMPLES))
+        .with_inputs(|| write_ours(&p, &x))
+        .bench_local_values(|w| w.finish().expect("finish"));
 }

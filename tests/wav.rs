@@ -9,7 +9,7 @@ mod corpus;
 use corpus::scratch_dir;
 use proptest::prelude::*;
 use std::path::Path;
-use tonewright::audio::dither::SplitMix64;
+use tonewright::audio::dither::{SplitMix64, TpdfDither};
 use tonewright::audio::{SampleFormat, WavReader, WavSpec, WavWriter};
 
 /// The formats hound 3.5 writes and reads: 8/16/24/32-bit integer and 32-bit float.
@@ -288,6 +288,139 @@ fn writer_stores_the_same_sample_bytes_as_hound_for_every_format_hound_writes() 
     }
 }
 
+/// Writes `samples` in blocks of 1, 7, 64, 1000 and 8191 frames, over and over, so
+/// blocks end at odd places, with TPDF dither from `seed` if given.
+fn write_in_odd_blocks(
+    path: &Path,
+    spec: WavSpec,
+    seed: Option<u64>,
+    samples: &[f64],
+) -> tonewright::audio::WriteStats {
+    let mut writer = WavWriter::create(path, spec, &[]).unwrap();
+    if let Some(seed) = seed {
+        writer = writer.with_tpdf_dither(seed).unwrap();
+    }
+    let mut rest = samples;
+    for frames in [1, 7, 64, 1000, 8191].into_iter().cycle() {
+        if rest.is_empty() {
+            break;
+        }
+        let (block, tail) = rest.split_at((frames * usize::from(spec.channels)).min(rest.len()));
+        writer.write_block(block).unwrap();
+        rest = tail;
+    }
+    writer.finish().unwrap()
+}
+
+/// hound's file of `channels` × `bits` samples, each written by `write`.
+fn hound_file(
+    path: &Path,
+    channels: u16,
+    sample_format: hound::SampleFormat,
+    bits: u16,
+    write: impl FnOnce(&mut hound::WavWriter<std::io::BufWriter<std::fs::File>>),
+) {
+    let spec =
+        hound::WavSpec { channels, sample_rate: 44_100, bits_per_sample: bits, sample_format };
+    let mut w = hound::WavWriter::create(path, spec).unwrap();
+    write(&mut w);
+    w.finalize().unwrap();
+}
+
+/// Frames of the edge tests: odd, so 8-bit mono needs a pad byte, and enough that
+/// every layout spans several of the writer's write calls (of 256 KiB).
+const FRAMES: usize = 300_001;
+
+/// Samples on and beside every rounding and clipping edge of a `bits`-bit integer
+/// (ties, the extreme codes and half an LSB beyond them, 2^50 to 2^53 LSB where
+/// adding a 1.5·2^52 rounding offset stops being exact, infinities), then seeded
+/// samples up to 10 % beyond full scale, `count` in all.
+fn edge_samples(bits: u16, count: usize) -> Vec<f64> {
+    let scale = (1i64 << (bits - 1)) as f64;
+    let mut v = vec![0.0, -0.0, 5e-324, f64::MAX, f64::MIN, f64::INFINITY, f64::NEG_INFINITY];
+    for lsb in [0.5, 1.5, 2.5, scale - 1.5, scale - 1.0, scale - 0.5, scale, scale + 0.5] {
+        v.extend([lsb / scale, -lsb / scale]);
+    }
+    for power in [50, 51, 52, 53] {
+        let lsb = 2f64.powi(power);
+        v.extend([lsb / scale, -lsb / scale, (lsb - 0.5) / scale, (0.5 - lsb) / scale]);
+    }
+    let mut rng = SplitMix64::new(u64::from(bits) + 100);
+    while v.len() < count {
+        v.push(2.2 * rng.next_f64() - 1.1);
+    }
+    v
+}
+
+/// The code and the clip of `v` LSB by the literal rule: nearest integer, ties to
+/// even, then the nearer extreme code of a `bits`-bit integer.
+fn literal_code(v: f64, bits: u16) -> (i64, bool) {
+    let (min, max) = (-(1i64 << (bits - 1)), (1i64 << (bits - 1)) - 1);
+    let r = v.round_ties_even();
+    if r < min as f64 {
+        (min, true)
+    } else if r > max as f64 {
+        (max, true)
+    } else {
+        (r as i64, false)
+    }
+}
+
+#[test]
+fn integer_writer_stores_what_hound_stores_for_literally_rounded_codes_at_every_edge() {
+    // The oracle adds the same seeded dither, rounds with round_ties_even and clips in
+    // i64; hound writes its codes.
+    let dir = scratch_dir("hound-edges");
+    let (ours, theirs) = (dir.join("ours.wav"), dir.join("hound.wav"));
+    for bits in [8u16, 16, 24, 32] {
+        let scale = (1i64 << (bits - 1)) as f64;
+        for channels in [1u16, 2, 3] {
+            let x = edge_samples(bits, FRAMES * usize::from(channels));
+            for seed in [None, Some(11)] {
+                let mut dither = seed.map(TpdfDither::new);
+                let mut overs = 0;
+                hound_file(&theirs, channels, hound::SampleFormat::Int, bits, |w| {
+                    for &s in &x {
+                        let d = dither.as_mut().map_or(0.0, TpdfDither::next_lsb);
+                        let (code, clipped) = literal_code(s * scale + d, bits);
+                        overs += u64::from(clipped);
+                        w.write_sample(code as i32).unwrap();
+                    }
+                });
+                let spec = WavSpec { channels, rate: 44_100, sample: SampleFormat::Int { bits } };
+                let stats = write_in_odd_blocks(&ours, spec, seed, &x);
+                let what = format!("{bits} bits, {channels} channels, dither {seed:?}");
+                assert_eq!((stats.frames, stats.overs), (FRAMES as u64, overs), "{what}");
+                assert_eq!(data_chunk(&ours), data_chunk(&theirs), "{what}");
+            }
+        }
+    }
+}
+
+#[test]
+fn float_writer_stores_what_hound_stores_beyond_full_scale_and_at_f32_edges() {
+    // f64 to f32 rounds to nearest (IEEE 754, Rust `as`), so hound gets `x as f32`;
+    // values beyond f32 become infinities, values below its subnormals zeros.
+    let dir = scratch_dir("hound-float-edges");
+    let (ours, theirs) = (dir.join("ours.wav"), dir.join("hound.wav"));
+    let f32_max = f64::from(f32::MAX);
+    let edges = [1.0 + f64::EPSILON, -1.5, 3.0, f32_max, f32_max * 1.000_000_1, 1e300, 1e-46];
+    for channels in [1u16, 2, 3] {
+        let mut x = edges.to_vec();
+        x.extend(edge_samples(24, FRAMES * usize::from(channels) - edges.len()));
+        hound_file(&theirs, channels, hound::SampleFormat::Float, 32, |w| {
+            for &s in &x {
+                w.write_sample(s as f32).unwrap();
+            }
+        });
+        let spec = WavSpec { channels, rate: 44_100, sample: SampleFormat::Float { bits: 32 } };
+        let stats = write_in_odd_blocks(&ours, spec, None, &x);
+        let overs = x.iter().filter(|s| s.abs() > 1.0).count() as u64;
+        assert_eq!((stats.frames, stats.overs), (FRAMES as u64, overs), "{channels} channels");
+        assert_eq!(data_chunk(&ours), data_chunk(&theirs), "{channels} channels");
+    }
+}
+
 /// A 16-bit stereo RIFF/WAVE file with the given chunks between `fmt ` and `data`.
 fn wav_with_chunks_before_data(extra: &[u8], codes: &[i16]) -> Vec<u8> {
     let mut body = b"WAVEfmt ".to_vec();
@@ -492,6 +625,41 @@ fn failed_write_leaves_no_output_file() {
     assert!(err.contains("not a whole number of 2-channel frames"), "{err}");
     drop(writer);
     assert_eq!(std::fs::read_dir(&dir).unwrap().count(), 0, "no file, no temporary file");
+}
+
+#[test]
+fn a_block_refused_for_a_nan_leaves_no_trace_in_any_format() {
+    // The writer searches for NaNs only in blocks with overs, where it counts a NaN,
+    // so NaNs come alone, beside an over and beside an infinity, in every format; the
+    // refused block must move neither the dither nor the counts.
+    let dir = scratch_dir("nan-refused");
+    let (before, after) = ([0.25, -1.5, 0.1], [0.3, 2.0, -0.7]);
+    for format in FORMATS {
+        let spec = WavSpec { channels: 1, rate: 8000, sample: format };
+        let seed = matches!(format, SampleFormat::Int { .. }).then_some(3);
+        let run = |bad: &[f64]| {
+            let path = dir.join("out.wav");
+            let mut w = WavWriter::create(&path, spec, &[]).unwrap();
+            if let Some(seed) = seed {
+                w = w.with_tpdf_dither(seed).unwrap();
+            }
+            w.write_block(&before).unwrap();
+            if !bad.is_empty() {
+                let err = w.write_block(bad).unwrap_err().to_string();
+                assert!(err.contains("not a number (nan) at frame 4, channel 0"), "{err}");
+            }
+            w.write_block(&after).unwrap();
+            let stats = w.finish().unwrap();
+            (stats, std::fs::read(&path).unwrap())
+        };
+        let clean = run(&[]);
+        assert_eq!(clean.0.overs, 2, "{format:?}");
+        for bad in
+            [[0.5, f64::NAN, 0.5], [1.5, f64::NAN, -f64::NAN], [0.0, -f64::NAN, f64::INFINITY]]
+        {
+            assert_eq!(run(&bad), clean, "{format:?} {bad:?}");
+        }
+    }
 }
 
 #[test]

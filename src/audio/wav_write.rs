@@ -40,8 +40,15 @@ pub struct WavWriter {
     header_bytes: u64,
     data_bytes: u64,
     overs: u64,
-    scratch: Vec<u8>,
+    /// Encoded samples not yet handed to the file, written once they reach
+    /// [`WRITE_BYTES`].
+    pending: Vec<u8>,
 }
+
+/// Bytes per write call, at least. The per-call cost of the kernel is large: on this
+/// project's machine 11.5 MB of 16 KiB writes to a new file took 6.2 ms, of 256 KiB
+/// writes 3.0 ms, and larger writes no less.
+const WRITE_BYTES: usize = 256 * 1024;
 
 impl WavWriter {
     /// Starts a WAV file at `path` with the header for `spec`, refusing to overwrite any
@@ -85,7 +92,7 @@ impl WavWriter {
             header_bytes: header.len() as u64,
             data_bytes: 0,
             overs: 0,
-            scratch: Vec::new(),
+            pending: Vec::with_capacity(WRITE_BYTES),
         })
     }
 
@@ -95,9 +102,8 @@ impl WavWriter {
     /// [`Error::Input`] for a float output, which is not dithered.
     pub fn with_tpdf_dither(mut self, seed: u64) -> Result<WavWriter> {
         if let SampleFormat::Float { bits } = self.spec.sample {
-            return Err(Error::input(format!(
-                "{}: tpdf dither applies to integer outputs, not {bits}-bit float",
-                self.file.target().display()
+            return Err(self.input_error(format!(
+                "tpdf dither applies to integer outputs, not {bits}-bit float"
             )));
         }
         self.dither = Some(TpdfDither::new(seed));
@@ -108,66 +114,84 @@ impl WavWriter {
     ///
     /// Integer outputs round to the nearest code (ties to even), after the dither if
     /// one was asked for, and clip to the extreme codes; float outputs store the value
-    /// (64-bit exactly, 32-bit rounded to nearest).
+    /// (64-bit exactly, 32-bit rounded to nearest). A refused block changes nothing,
+    /// the dither sequence included.
     ///
     /// # Errors
     /// [`Error::Input`] for a block that is not whole frames, a NaN sample, or a file
     /// that would pass the 4 GiB size limit of RIFF; [`Error::Io`] on a write failure.
     pub fn write_block(&mut self, samples: &[f64]) -> Result<()> {
-        let target = self.file.target().to_path_buf();
         let channels = usize::from(self.spec.channels);
         if samples.len() % channels != 0 {
-            return Err(Error::input(format!(
-                "{}: block of {} samples is not a whole number of {channels}-channel frames",
-                target.display(),
+            return Err(self.input_error(format!(
+                "block of {} samples is not a whole number of {channels}-channel frames",
                 samples.len()
             )));
         }
-        let new_bytes = (samples.len() * self.spec.sample.bytes()) as u64;
+        let new_bytes = samples.len() * self.spec.sample.bytes();
         // The RIFF size field counts everything after its own 8 bytes, pad byte included.
-        if self.header_bytes - 8 + self.data_bytes + new_bytes + 1 > u64::from(u32::MAX) {
-            return Err(Error::input(format!(
-                "{}: output exceeds the 4 GiB size limit of wav files",
-                target.display()
-            )));
+        if self.header_bytes - 8 + self.data_bytes + new_bytes as u64 + 1 > u64::from(u32::MAX) {
+            return Err(self.input_error("output exceeds the 4 GiB size limit of wav files".into()));
         }
-        if let Some(i) = samples.iter().position(|x| x.is_nan()) {
-            let frame = self.data_bytes / self.spec.block_align() as u64 + (i / channels) as u64;
-            return Err(Error::input(format!(
-                "{}: sample is not a number (nan) at frame {frame}, channel {}",
-                target.display(),
-                i % channels
-            )));
-        }
-        self.scratch.clear();
-        self.scratch.resize(samples.len() * self.spec.sample.bytes(), 0);
-        let (out, dither, overs) = (&mut self.scratch, self.dither.as_mut(), &mut self.overs);
+        let start = self.pending.len();
+        self.pending.resize(start + new_bytes, 0);
+        let out = &mut self.pending[start..];
+        let mut dither = self.dither.clone();
         // One loop per codec (and per dither choice): no per-sample branching on format.
-        match (self.codec, dither) {
-            (Codec::U8, None) => encode::<1, 8>(samples, out, overs, || 0.0),
-            (Codec::U8, Some(d)) => encode::<1, 8>(samples, out, overs, || d.next_lsb()),
-            (Codec::I16, None) => encode::<2, 16>(samples, out, overs, || 0.0),
-            (Codec::I16, Some(d)) => encode::<2, 16>(samples, out, overs, || d.next_lsb()),
-            (Codec::I24, None) => encode::<3, 24>(samples, out, overs, || 0.0),
-            (Codec::I24, Some(d)) => encode::<3, 24>(samples, out, overs, || d.next_lsb()),
-            (Codec::I32, None) => encode::<4, 32>(samples, out, overs, || 0.0),
-            (Codec::I32, Some(d)) => encode::<4, 32>(samples, out, overs, || d.next_lsb()),
+        let overs = match (self.codec, dither.as_mut()) {
+            (Codec::U8, None) => encode::<1, 8>(samples, out, || 0.0),
+            (Codec::U8, Some(d)) => encode::<1, 8>(samples, out, || d.next_lsb()),
+            (Codec::I16, None) => encode::<2, 16>(samples, out, || 0.0),
+            (Codec::I16, Some(d)) => encode::<2, 16>(samples, out, || d.next_lsb()),
+            (Codec::I24, None) => encode::<3, 24>(samples, out, || 0.0),
+            (Codec::I24, Some(d)) => encode::<3, 24>(samples, out, || d.next_lsb()),
+            (Codec::I32, None) => encode::<4, 32>(samples, out, || 0.0),
+            (Codec::I32, Some(d)) => encode::<4, 32>(samples, out, || d.next_lsb()),
             (Codec::F32, _) => {
                 for (b, &x) in out.chunks_exact_mut(4).zip(samples) {
                     b.copy_from_slice(&(x as f32).to_le_bytes());
                 }
-                *overs += count_overs(samples);
+                count_overs(samples)
             }
             (Codec::F64, _) => {
                 for (b, &x) in out.chunks_exact_mut(8).zip(samples) {
                     b.copy_from_slice(&x.to_le_bytes());
                 }
-                *overs += count_overs(samples);
+                count_overs(samples)
+            }
+        };
+        // Every codec counts a NaN as an over, so only a block with overs needs the
+        // search, which then runs before anything of the block is kept.
+        if overs > 0 {
+            if let Some(i) = samples.iter().position(|x| x.is_nan()) {
+                self.pending.truncate(start);
+                let frame =
+                    self.data_bytes / self.spec.block_align() as u64 + (i / channels) as u64;
+                return Err(self.input_error(format!(
+                    "sample is not a number (nan) at frame {frame}, channel {}",
+                    i % channels
+                )));
             }
         }
-        self.file.write_all(&self.scratch).map_err(|e| Error::io(&target, e))?;
-        self.data_bytes += new_bytes;
+        self.dither = dither;
+        self.overs += overs;
+        self.data_bytes += new_bytes as u64;
+        if self.pending.len() >= WRITE_BYTES {
+            self.write_pending()?;
+        }
         Ok(())
+    }
+
+    /// Hands the encoded samples to the file.
+    fn write_pending(&mut self) -> Result<()> {
+        let written = self.file.write_all(&self.pending);
+        self.pending.clear();
+        written.map_err(|e| Error::io(self.file.target(), e))
+    }
+
+    /// An input error naming the target.
+    fn input_error(&self, what: String) -> Error {
+        Error::input(format!("{}: {what}", self.file.target().display()))
     }
 
     /// Writes the pad byte and the final sizes, then renames the file into place.
@@ -177,6 +201,7 @@ impl WavWriter {
     /// then left as it was.
     pub fn finish(mut self) -> Result<WriteStats> {
         let target = self.file.target().to_path_buf();
+        self.write_pending()?;
         let io = |e: std::io::Error| Error::io(&target, e);
         if self.data_bytes % 2 == 1 {
             self.file.write_all(&[0]).map_err(io)?;
@@ -198,43 +223,45 @@ impl WavWriter {
     }
 }
 
-/// Float samples beyond full scale.
+/// Float samples beyond full scale, NaN included.
 fn count_overs(samples: &[f64]) -> u64 {
-    samples.iter().map(|x| u64::from(x.abs() > 1.0)).sum()
+    samples.iter().map(|x| u64::from(x.abs() > 1.0 || x.is_nan())).sum()
 }
 
-/// Encodes non-NaN `samples` as `BITS`-bit integer codes of `BYTES` little-endian
-/// bytes (8-bit: unsigned, offset 128): each is scaled by 2^(BITS−1), dithered by
+/// Encodes `samples` as `BITS`-bit integer codes of `BYTES` little-endian bytes
+/// (8-bit: unsigned, offset 128): each is scaled by 2^(BITS−1), dithered by
 /// `dither()` LSB, rounded to the nearest code (ties to even) and clipped to the
-/// extreme codes, counting each clip in `overs`.
+/// extreme codes. Returns the number of clips, NaN samples included (their bytes are
+/// meaningless).
 #[inline(always)]
 fn encode<const BYTES: usize, const BITS: u32>(
     samples: &[f64],
     out: &mut [u8],
-    overs: &mut u64,
     mut dither: impl FnMut() -> f64,
-) {
+) -> u64 {
     let scale = 1.0 / int_step(BITS as u16);
-    let (lo, hi) = (-scale, scale - 1.0);
-    // Adding and removing 1.5·2^52 rounds to the nearest integer, ties to even, for
-    // |v| < 2^51 (IEEE 754 default rounding), without a libm call where the CPU has
-    // no rounding instruction; the clamp to one step beyond the codes keeps v there
-    // and leaves clipping and its count as they were.
-    const ROUND: f64 = 6_755_399_441_055_744.0;
+    // Adding 1.5·2^52, where one unit is the last mantissa bit, rounds v to the
+    // nearest integer, ties to even (IEEE 754 default rounding), for |v| < 2^51 and
+    // leaves that integer in two's complement in the low 32 bits of the sum. Clipping
+    // the sum to the offset extreme codes (exact) clips the code, so the loop needs no
+    // float-to-integer conversion and vectorises. Rounding is monotone: a larger |v|
+    // still lands beyond an extreme code and is clipped and counted.
+    const OFFSET: f64 = 6_755_399_441_055_744.0;
+    let (lo, hi) = (OFFSET - scale, OFFSET + scale - 1.0);
     let mut clipped = 0;
     for (b, &x) in out.chunks_exact_mut(BYTES).zip(samples) {
-        let v = (x * scale + dither()).clamp(lo - 1.0, hi + 1.0);
-        let code = (v + ROUND) - ROUND;
-        let c = code.clamp(lo, hi);
-        clipped += u64::from(c != code);
-        let c = c as i32;
+        let sum = x * scale + dither() + OFFSET;
+        // A NaN sum stays NaN through the clamp and differs from itself: a clip.
+        let c = sum.clamp(lo, hi);
+        clipped += u64::from(c != sum);
+        let code = c.to_bits() as u32;
         if BYTES == 1 {
-            b[0] = (c + 128) as u8;
+            b[0] = code as u8 ^ 0x80;
         } else {
-            b.copy_from_slice(&c.to_le_bytes()[..BYTES]);
+            b.copy_from_slice(&code.to_le_bytes()[..BYTES]);
         }
     }
-    *overs += clipped;
+    clipped
 }
 
 /// The header bytes for `spec` with zero sizes, the offset of the `fact` sample count
