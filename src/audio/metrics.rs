@@ -46,10 +46,15 @@ pub struct ChannelLevels {
 }
 
 /// Accumulates per-channel peak, RMS and clipped samples over a stream of blocks.
+///
+/// The accumulators are lanes over a run of whole frames (24 samples when the channel
+/// count divides 24, else one frame): lane l always meets channel l mod n, so the loop
+/// vectorises and several running sums break the add chain of one.
 #[derive(Debug, Clone)]
 pub struct LevelMeter {
     channels: usize,
     positive_full_scale: f64,
+    /// Per lane.
     peak: Vec<f64>,
     sum_squares: Vec<f64>,
     clipped: Vec<u64>,
@@ -62,12 +67,13 @@ impl LevelMeter {
     /// positive value (32767/32768 for 16-bit).
     pub fn new(channels: u16, format: SampleFormat) -> LevelMeter {
         let n = usize::from(channels.max(1));
+        let lanes = if 24 % n == 0 { 24 } else { n };
         LevelMeter {
             channels: n,
             positive_full_scale: format.positive_full_scale(),
-            peak: vec![0.0; n],
-            sum_squares: vec![0.0; n],
-            clipped: vec![0; n],
+            peak: vec![0.0; lanes],
+            sum_squares: vec![0.0; lanes],
+            clipped: vec![0; lanes],
             frames: 0,
         }
     }
@@ -76,34 +82,32 @@ impl LevelMeter {
     pub fn add(&mut self, block: &[f64]) {
         let n = self.channels;
         let frames = block.len() / n;
-        let whole = &block[..frames * n];
-        for c in 0..n {
-            // Four interleaved accumulators break the add chain of one running sum, so
-            // metering costs a fraction of the filtering it watches.
-            let (mut sums, mut peaks, mut clipped) = ([0.0f64; 4], [0.0f64; 4], 0u64);
-            for (k, &x) in whole.iter().skip(c).step_by(n).enumerate() {
-                let lane = k & 3;
-                sums[lane] += x * x;
-                let a = x.abs();
-                if a > peaks[lane] {
-                    peaks[lane] = a;
-                }
-                clipped += u64::from(x <= -1.0 || x >= self.positive_full_scale);
+        let full = self.positive_full_scale;
+        // Each run, the last one too, starts on a frame, so lanes keep their channels.
+        for run in block[..frames * n].chunks(self.peak.len()) {
+            let lanes = self.sum_squares.iter_mut().zip(self.peak.iter_mut());
+            for ((&x, (sum, peak)), clipped) in run.iter().zip(lanes).zip(self.clipped.iter_mut()) {
+                *sum += x * x;
+                *peak = peak.max(x.abs());
+                *clipped += u64::from(x <= -1.0 || x >= full);
             }
-            self.sum_squares[c] += (sums[0] + sums[1]) + (sums[2] + sums[3]);
-            self.peak[c] = peaks.iter().fold(self.peak[c], |m, &p| m.max(p));
-            self.clipped[c] += clipped;
         }
         self.frames += frames as u64;
     }
 
     /// The levels of each channel so far (RMS of no frames is −∞).
     pub fn levels(&self) -> Vec<ChannelLevels> {
-        (0..self.channels)
+        let n = self.channels;
+        let lanes = |c: usize| (c..self.peak.len()).step_by(n);
+        (0..n)
             .map(|c| ChannelLevels {
-                peak_dbfs: amp_to_db(self.peak[c]),
-                rms_dbfs: amp_to_db((self.sum_squares[c] / self.frames.max(1) as f64).sqrt()),
-                clipped: self.clipped[c],
+                peak_dbfs: amp_to_db(lanes(c).map(|l| self.peak[l]).fold(0.0, f64::max)),
+                rms_dbfs: amp_to_db(
+                    (lanes(c).map(|l| self.sum_squares[l]).sum::<f64>()
+                        / self.frames.max(1) as f64)
+                        .sqrt(),
+                ),
+                clipped: lanes(c).map(|l| self.clipped[l]).sum(),
             })
             .collect()
     }

@@ -55,14 +55,16 @@ impl SampleScale {
     /// ```
     #[inline]
     pub fn to_int(&self, x: f64) -> i32 {
-        // Adding and removing 1.5·2^52 rounds to the nearest integer, ties to even, for
-        // |v| < 2^51 (IEEE 754 default rounding) without a libm call on CPUs that lack
-        // a rounding instruction in the baseline set; the first clamp keeps v there.
+        // Adding 1.5·2^52 to |v| < 2^51 rounds it to the nearest integer, ties to even
+        // (IEEE 754 default rounding), and leaves that integer in the low bits of the
+        // sum's representation: no libm call, no saturating cast, so loops over blocks
+        // vectorise. The clamp to the word's integer ends commutes with the rounding.
         const ROUND: f64 = 6_755_399_441_055_744.0;
         let (lo, hi) = (f64::from(self.min()), f64::from(self.max()));
-        let v = (x * self.full_scale).clamp(lo - 1.0, hi + 1.0);
-        // NaN passes both clamps and `as` maps it to 0.
-        (((v + ROUND) - ROUND).clamp(lo, hi)) as i32
+        let v = (x * self.full_scale).clamp(lo, hi);
+        // NaN passes the clamp; it maps to 0.
+        let v = if v.is_nan() { 0.0 } else { v };
+        (v + ROUND).to_bits() as i32
     }
 
     /// A sample as a fraction of full scale.

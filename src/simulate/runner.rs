@@ -47,8 +47,10 @@ impl Runner {
         match self {
             Runner::F64(e) => e.process(block),
             Runner::F32(e, buf) => {
-                buf.clear();
-                buf.extend(block.iter().map(|&x| x as f32));
+                buf.resize(block.len(), 0.0);
+                for (y, &x) in buf.iter_mut().zip(block.iter()) {
+                    *y = x as f32;
+                }
                 e.process(buf)?;
                 for (x, &y) in block.iter_mut().zip(buf.iter()) {
                     *x = f64::from(y);
@@ -56,8 +58,13 @@ impl Runner {
                 Ok(())
             }
             Runner::Fixed(e, scale, buf) => {
-                buf.clear();
-                buf.extend(block.iter().map(|&x| scale.to_int(x)));
+                // A local copy: the compiler cannot tell the scale from the buffers it
+                // writes, and would reload it on every sample instead of vectorising.
+                let scale = *scale;
+                buf.resize(block.len(), 0);
+                for (y, &x) in buf.iter_mut().zip(block.iter()) {
+                    *y = scale.to_int(x);
+                }
                 e.process(buf)?;
                 for (x, &y) in block.iter_mut().zip(buf.iter()) {
                     *x = scale.to_f64(y);
