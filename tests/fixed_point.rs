@@ -562,12 +562,21 @@ fn float_paths_mismatch(
     let bits = |v: &[f64]| v.iter().map(|f| f.to_bits()).collect::<Vec<_>>();
     let bits32 = |v: &[f32]| v.iter().map(|f| f.to_bits()).collect::<Vec<_>>();
     for &frames in block_frames {
-        for baseline in [false, true] {
+        // Every instruction-set build: the best this processor has, without AVX-512,
+        // and the baseline.
+        for build in ["best", "no AVX-512", "baseline"] {
             let mut e = FloatEngine::<f64>::new(c, structure, channels).unwrap();
             let mut e32 = FloatEngine::<f32>::new(c, structure, channels).unwrap();
-            if baseline {
-                e = e.baseline();
-                e32 = e32.baseline();
+            match build {
+                "best" => {}
+                "no AVX-512" => {
+                    e = e.without_avx512();
+                    e32 = e32.without_avx512();
+                }
+                _ => {
+                    e = e.baseline();
+                    e32 = e32.baseline();
+                }
             }
             let (mut y, mut y32) = (x.to_vec(), x32.clone());
             for block in y.chunks_mut(frames * channels) {
@@ -578,7 +587,7 @@ fn float_paths_mismatch(
             }
             let case = format!(
                 "{} sections, {structure:?}, {channels} channels, {frames} frames per block, \
-                 baseline {baseline}",
+                 {build} build",
                 c.sections.len()
             );
             if bits(&y) != bits(&want) {

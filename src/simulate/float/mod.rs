@@ -54,6 +54,8 @@ pub struct FloatEngine<T> {
     lanes: Vec<usize>,
     /// Whether the AVX2 build of the kernels runs (set only after run-time detection).
     avx2: bool,
+    /// Whether the AVX-512 wavefront runs for f64 (set only after run-time detection).
+    avx512: bool,
 }
 
 impl<T: FloatSample> FloatEngine<T> {
@@ -88,7 +90,15 @@ impl<T: FloatSample> FloatEngine<T> {
             lanes.push(width);
             left -= width;
         }
-        Ok(Self { structure, channels, coefs, state, lanes, avx2: avx2_detected() })
+        Ok(Self {
+            structure,
+            channels,
+            coefs,
+            state,
+            lanes,
+            avx2: avx2_detected(),
+            avx512: avx512_detected(),
+        })
     }
 
     /// The same engine restricted to the baseline instruction set (SSE2 on x86-64),
@@ -110,6 +120,14 @@ impl<T: FloatSample> FloatEngine<T> {
     /// ```
     pub fn baseline(mut self) -> Self {
         self.avx2 = false;
+        self.avx512 = false;
+        self
+    }
+
+    /// The same engine without its AVX-512 kernel (the f64 wavefront then runs in
+    /// AVX2 registers). The output is identical; only the speed differs.
+    pub fn without_avx512(mut self) -> Self {
+        self.avx512 = false;
         self
     }
 }
@@ -120,9 +138,21 @@ fn avx2_detected() -> bool {
     std::is_x86_feature_detected!("avx2")
 }
 
+/// Whether this x86-64 processor runs the AVX-512 instructions the f64 wavefront uses.
+#[cfg(target_arch = "x86_64")]
+fn avx512_detected() -> bool {
+    std::is_x86_feature_detected!("avx512f") && std::is_x86_feature_detected!("avx512dq")
+}
+
 /// No AVX2 build off x86-64.
 #[cfg(not(target_arch = "x86_64"))]
 fn avx2_detected() -> bool {
+    false
+}
+
+/// No AVX-512 build off x86-64.
+#[cfg(not(target_arch = "x86_64"))]
+fn avx512_detected() -> bool {
     false
 }
 
@@ -131,56 +161,69 @@ fn avx2_detected() -> bool {
 mod sealed {
     /// The fastest kernel a type has for a structure and lane group width.
     pub trait Kernels: Sized {
-        /// See [`super::kernel`]; `avx2` only when the processor has it.
-        fn kernel(structure: super::Structure, lanes: usize, avx2: bool) -> super::Run<Self>;
+        /// See [`super::kernel`]; `avx2` and `avx512` only when the processor has them.
+        fn kernel(
+            structure: super::Structure,
+            lanes: usize,
+            avx2: bool,
+            avx512: bool,
+        ) -> super::Run<Self>;
     }
 }
 use sealed::Kernels;
 
 impl Kernels for f64 {
-    fn kernel(structure: Structure, lanes: usize, avx2: bool) -> Run<f64> {
-        fastest::<f64>(structure, lanes, avx2)
+    fn kernel(structure: Structure, lanes: usize, avx2: bool, avx512: bool) -> Run<f64> {
+        fastest::<f64>(structure, lanes, avx2, avx512)
     }
 }
 
 impl Kernels for f32 {
-    fn kernel(structure: Structure, lanes: usize, avx2: bool) -> Run<f32> {
-        fastest::<f32>(structure, lanes, avx2)
+    fn kernel(structure: Structure, lanes: usize, avx2: bool, avx512: bool) -> Run<f32> {
+        fastest::<f32>(structure, lanes, avx2, avx512)
     }
 }
 
-/// On AVX2, one or two channels in df2t run the wavefront; everything else runs
-/// [`kernel`].
+/// On AVX2, one or two channels in df2t run the wavefront (two channels of f64 in
+/// AVX-512 registers when `avx512`); everything else runs [`kernel`].
 #[cfg(target_arch = "x86_64")]
 fn fastest<T: FloatSample + wavefront::Lane>(
     structure: Structure,
     lanes: usize,
     avx2: bool,
+    avx512: bool,
 ) -> Run<T> {
     if avx2 && structure == Structure::Df2t && lanes <= 2 {
-        return if lanes == 1 { wavefront_checked::<T, 1> } else { wavefront_checked::<T, 2> };
+        // One channel waits on the recursion, where AVX-512's longer lane permute
+        // costs more than its registers save (measured); two channels gain.
+        return match (lanes, avx512) {
+            (1, _) => wavefront_checked::<T, 1, false>,
+            (_, false) => wavefront_checked::<T, 2, false>,
+            (_, true) => wavefront_checked::<T, 2, true>,
+        };
     }
     kernel::<T>(structure, lanes, avx2)
 }
 
 /// Off x86-64, [`kernel`].
 #[cfg(not(target_arch = "x86_64"))]
-fn fastest<T: FloatSample>(structure: Structure, lanes: usize, avx2: bool) -> Run<T> {
+fn fastest<T: FloatSample>(structure: Structure, lanes: usize, avx2: bool, _: bool) -> Run<T> {
     kernel::<T>(structure, lanes, avx2)
 }
 
-/// [`wavefront::run`] behind a safe signature; only [`kernel`] hands it out, and only
-/// when `avx2` is true, which [`FloatEngine`] sets only after run-time detection.
+/// [`wavefront::run`] behind a safe signature; only [`fastest`] hands it out, and only
+/// when `avx2` (and for `WIDE`, `avx512`) is true, which [`FloatEngine`] sets only
+/// after run-time detection.
 #[cfg(target_arch = "x86_64")]
-fn wavefront_checked<T: wavefront::Lane, const CH: usize>(
+fn wavefront_checked<T: wavefront::Lane, const CH: usize, const WIDE: bool>(
     coefs: &[[T; 5]],
     state: &mut [T],
     frames: &mut [T],
     first: usize,
     n: usize,
 ) {
-    // SAFETY: reachable only with `avx2` set after detection (above).
-    unsafe { wavefront::run::<T, CH>(coefs, state, frames, first, n) }
+    // SAFETY: reachable only with the instruction sets detected (above).
+    unsafe { wavefront::run::<T, CH, WIDE>(coefs, state, frames, first, n) }
 }
 
 /// A kernel over one lane group of an interleaved buffer: coefficients, the group's
@@ -261,7 +304,7 @@ impl<T: FloatSample> Engine for FloatEngine<T> {
         let per_channel = self.coefs.len() * 4;
         let mut first = 0;
         for &width in &self.lanes {
-            let run = T::kernel(self.structure, width, self.avx2);
+            let run = T::kernel(self.structure, width, self.avx2, self.avx512);
             let state = &mut self.state[first * per_channel..(first + width) * per_channel];
             run(&self.coefs, state, frames, first, self.channels);
             first += width;

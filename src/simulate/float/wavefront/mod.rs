@@ -31,8 +31,10 @@ const WAVE: usize = 8;
 /// from `first`, continuing from `state` (per section, four states, one value per
 /// channel). Waves of at most [`WAVE`] sections, as equal in size as possible, each
 /// over the frames pass by pass.
+/// With `WIDE`, f64 waves run in AVX-512 registers (8 lanes, no spilled states for
+/// two channels).
 #[target_feature(enable = "avx2")]
-pub(super) fn run<T: Lane, const CH: usize>(
+pub(super) fn run<T: Lane, const CH: usize, const WIDE: bool>(
     coefs: &[[T; 5]],
     state: &mut [T],
     frames: &mut [T],
@@ -49,8 +51,9 @@ pub(super) fn run<T: Lane, const CH: usize>(
             let size = ns / waves + usize::from(w < ns % waves);
             let lanes = Lanes { frames: &mut *pass, first, n, m };
             let (c, s) = (&coefs[k..k + size], &mut state[k * 4 * CH..(k + size) * 4 * CH]);
-            // SAFETY: this function runs only on processors with AVX2 (its caller checks).
-            unsafe { T::wave::<CH>(c, s, lanes) };
+            // SAFETY: this function runs only on processors with AVX2, and with `WIDE`
+            // AVX-512F and DQ (its caller checks).
+            unsafe { T::wave::<CH, WIDE>(c, s, lanes) };
             k += size;
         }
     }
@@ -58,11 +61,12 @@ pub(super) fn run<T: Lane, const CH: usize>(
 
 /// A float type with an AVX2 wavefront.
 pub(super) trait Lane: Copy + Default {
-    /// Runs one wave (at most [`WAVE`] sections) over a pass.
+    /// Runs one wave (at most [`WAVE`] sections) over a pass; with `WIDE` in AVX-512
+    /// registers where the type has such a wave.
     ///
     /// # Safety
-    /// The processor must support AVX2.
-    unsafe fn wave<const CH: usize>(
+    /// The processor must support AVX2, and with `WIDE` AVX-512F and DQ.
+    unsafe fn wave<const CH: usize, const WIDE: bool>(
         coefs: &[[Self; 5]],
         state: &mut [Self],
         lanes: Lanes<'_, Self>,
@@ -71,8 +75,16 @@ pub(super) trait Lane: Copy + Default {
 
 impl Lane for f64 {
     #[target_feature(enable = "avx2")]
-    unsafe fn wave<const CH: usize>(coefs: &[[f64; 5]], state: &mut [f64], lanes: Lanes<'_, f64>) {
+    unsafe fn wave<const CH: usize, const WIDE: bool>(
+        coefs: &[[f64; 5]],
+        state: &mut [f64],
+        lanes: Lanes<'_, f64>,
+    ) {
         use std::arch::x86_64::__m256d;
+        if WIDE {
+            // SAFETY: the caller checked AVX-512F and DQ.
+            return unsafe { wave_avx512::<CH>(coefs, state, lanes) };
+        }
         // Without passing lanes (4 or 8 sections) the blend that passes them is left out.
         match coefs.len() {
             4 => wave::<__m256d, 1, CH, false>(coefs, state, lanes),
@@ -83,9 +95,24 @@ impl Lane for f64 {
     }
 }
 
+/// An f64 wave in one AVX-512 register of 8 lanes.
+#[target_feature(enable = "avx512f,avx512dq")]
+fn wave_avx512<const CH: usize>(coefs: &[[f64; 5]], state: &mut [f64], lanes: Lanes<'_, f64>) {
+    use std::arch::x86_64::__m512d;
+    if coefs.len() == 8 {
+        wave::<__m512d, 1, CH, false>(coefs, state, lanes)
+    } else {
+        wave::<__m512d, 1, CH, true>(coefs, state, lanes)
+    }
+}
+
 impl Lane for f32 {
     #[target_feature(enable = "avx2")]
-    unsafe fn wave<const CH: usize>(coefs: &[[f32; 5]], state: &mut [f32], lanes: Lanes<'_, f32>) {
+    unsafe fn wave<const CH: usize, const WIDE: bool>(
+        coefs: &[[f32; 5]],
+        state: &mut [f32],
+        lanes: Lanes<'_, f32>,
+    ) {
         use std::arch::x86_64::__m256;
         if coefs.len() == 8 {
             wave::<__m256, 1, CH, false>(coefs, state, lanes)
@@ -125,8 +152,10 @@ struct Wave<R, const V: usize> {
 }
 
 /// Runs the sections `coefs` (as many as the lanes of `V` registers; fewer only when
-/// `PASSING`) over every frame of the pass, from and back to `state`.
-#[target_feature(enable = "avx2")]
+/// `PASSING`) over every frame of the pass, from and back to `state`. Inlined, with
+/// everything it calls, into the `Lane::wave` functions compiled for `R`'s
+/// instruction set.
+#[inline(always)]
 fn wave<R: Register, const V: usize, const CH: usize, const PASSING: bool>(
     coefs: &[[R::Lane; 5]],
     state: &mut [R::Lane],
@@ -183,8 +212,7 @@ impl<R: Register, const V: usize> Wave<R, V> {
     /// sample t − l. `MASKED` outside the body: lanes without a sample keep their
     /// states. Writes the last lane's output and moves every lane's output (or passed
     /// input) to the next lane.
-    #[inline]
-    #[target_feature(enable = "avx2")]
+    #[inline(always)]
     fn step<const CH: usize, const MASKED: bool, const PASSING: bool>(
         &self,
         s: &mut [[[R; V]; 2]; CH],
