@@ -114,7 +114,7 @@ impl SignalSpec {
         let mut out = Vec::with_capacity(frames * channels);
         for n in 0..frames {
             let x = f(n);
-            out.extend(std::iter::repeat(x).take(channels));
+            out.extend(std::iter::repeat_n(x, channels));
         }
         Ok(out)
     }
@@ -310,7 +310,7 @@ pub fn mix_hum(
     spec.frames()?;
     spec.check_freq("mains frequency", mains.hz())?;
     let channels = usize::from(channels);
-    if signal.len() % channels != 0 {
+    if !signal.len().is_multiple_of(channels) {
         return Err(Error::input(format!(
             "signal: {} samples are not a whole number of {channels}-channel frames",
             signal.len()

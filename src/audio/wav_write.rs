@@ -122,7 +122,7 @@ impl WavWriter {
     /// that would pass the 4 GiB size limit of RIFF; [`Error::Io`] on a write failure.
     pub fn write_block(&mut self, samples: &[f64]) -> Result<()> {
         let channels = usize::from(self.spec.channels);
-        if samples.len() % channels != 0 {
+        if !samples.len().is_multiple_of(channels) {
             return Err(self.input_error(format!(
                 "block of {} samples is not a whole number of {channels}-channel frames",
                 samples.len()

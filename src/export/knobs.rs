@@ -184,7 +184,10 @@ fn align(prev: Option<&[Sos]>, mut cur: Vec<Sos>, count: usize) -> (Vec<Sos>, bo
 /// The neighbour an entry is aligned to: one step back along the last axis whose index
 /// is not 0.
 fn neighbour(index: usize, axes: &[Axis]) -> Option<usize> {
-    axes.iter().rev().find(|a| (index / a.stride) % a.steps > 0).map(|a| index - a.stride)
+    axes.iter()
+        .rev()
+        .find(|a| !(index / a.stride).is_multiple_of(a.steps))
+        .map(|a| index - a.stride)
 }
 
 /// Aligns a list of sets in table order (each to its neighbour); returns the count of

@@ -153,7 +153,7 @@ pub fn find_limit_cycle(fixed: &FixedCascade) -> Result<LimitCycleSearch> {
             Some(p) => {
                 let c = LimitCycle { amplitude_lsb: peak[ch], period: p };
                 let key = |l: &LimitCycle| (l.amplitude_lsb, std::cmp::Reverse(l.period));
-                if largest.as_ref().map_or(true, |l| key(&c) > key(l)) {
+                if largest.as_ref().is_none_or(|l| key(&c) > key(l)) {
                     largest = Some(c);
                 }
             }

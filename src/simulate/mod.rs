@@ -55,7 +55,7 @@ fn check_channels(channels: usize) -> Result<()> {
 
 /// Checks that a buffer holds whole frames.
 fn check_frames(len: usize, channels: usize) -> Result<()> {
-    if len % channels != 0 {
+    if !len.is_multiple_of(channels) {
         return Err(Error::input(format!(
             "block of {len} samples is not a whole number of {channels}-channel frames"
         )));

@@ -21,6 +21,6 @@ pub(super) fn prototype(n: usize, ripple_db: f64) -> Result<Prototype> {
     validate::positive("chebyshev ripple_db", ripple_db, " dB")?;
     let eps_sq = ripple_factor_sq(ripple_db);
     let mu = (1.0 / eps_sq.sqrt()).asinh() / n as f64;
-    let dc_gain = if n % 2 == 0 { 1.0 / (1.0 + eps_sq).sqrt() } else { 1.0 };
+    let dc_gain = if n.is_multiple_of(2) { 1.0 / (1.0 + eps_sq).sqrt() } else { 1.0 };
     Ok(Prototype { factors: ellipse_poles(n, mu.sinh(), mu.cosh()), dc_gain })
 }

@@ -9,7 +9,7 @@ use crate::error::{Error, Result};
 /// # Errors
 /// An odd `n`, or a band-pass or band-stop `band` (a crossover has no such form).
 pub(super) fn prototype(n: usize, band: Band) -> Result<Prototype> {
-    if n % 2 != 0 {
+    if !n.is_multiple_of(2) {
         return Err(Error::input(format!("linkwitz-riley order {n} must be even")));
     }
     if let Band::Bandpass { .. } | Band::Bandstop { .. } = band {
