@@ -469,18 +469,24 @@ fn exacting_input(scale: SampleScale, frames: usize, channels: usize, seed: u64)
         .collect()
 }
 
+/// The instruction-set builds of the engines: the best this processor has, without
+/// AVX-512, and the baseline.
+const BUILDS: [&str; 3] = ["best", "no AVX-512", "baseline"];
+
 /// The engine's output and overflow count for `channels` channels processed in blocks
-/// of `frames` frames; the scalar kernel only when `baseline`.
+/// of `frames` frames, in one of [`BUILDS`].
 fn fixed_engine_in_blocks(
     fixed: &FixedCascade,
     channels: usize,
     x: &[i32],
     frames: usize,
-    baseline: bool,
+    build: &str,
 ) -> (Vec<i32>, u64) {
     let mut e = FixedEngine::new(fixed, channels).unwrap();
-    if baseline {
-        e = e.baseline();
+    match build {
+        "best" => {}
+        "no AVX-512" => e = e.without_avx512(),
+        _ => e = e.baseline(),
     }
     let mut y = x.to_vec();
     for block in y.chunks_mut(frames * channels) {
@@ -516,11 +522,10 @@ proptest! {
         let mut want = x.clone();
         let want_overflows = reference::fixed_cascade(&fixed, channels, &mut want);
         for frames in [1usize, 63, 64, 65, 700] {
-            for baseline in [false, true] {
-                let (got, overflows) =
-                    fixed_engine_in_blocks(&fixed, channels, &x, frames, baseline);
-                prop_assert_eq!(&got, &want, "{} frames per block, baseline {}", frames, baseline);
-                prop_assert_eq!(overflows, want_overflows, "{} frames, baseline {}", frames, baseline);
+            for build in BUILDS {
+                let (got, overflows) = fixed_engine_in_blocks(&fixed, channels, &x, frames, build);
+                prop_assert_eq!(&got, &want, "{} frames per block, {} build", frames, build);
+                prop_assert_eq!(overflows, want_overflows, "{} frames, {} build", frames, build);
             }
         }
     }
@@ -543,7 +548,7 @@ proptest! {
     }
 }
 
-/// Runs `x` through the f64 and f32 engines (default and baseline instruction sets) in
+/// Runs `x` through the f64 and f32 engines (every build of [`BUILDS`]) in
 /// blocks of each of `block_frames` and compares every output bit with the plain
 /// loops (NaN-free inputs; to_bits also tells −0.0 from 0.0). Returns the first
 /// difference found.
@@ -562,9 +567,7 @@ fn float_paths_mismatch(
     let bits = |v: &[f64]| v.iter().map(|f| f.to_bits()).collect::<Vec<_>>();
     let bits32 = |v: &[f32]| v.iter().map(|f| f.to_bits()).collect::<Vec<_>>();
     for &frames in block_frames {
-        // Every instruction-set build: the best this processor has, without AVX-512,
-        // and the baseline.
-        for build in ["best", "no AVX-512", "baseline"] {
+        for build in BUILDS {
             let mut e = FloatEngine::<f64>::new(c, structure, channels).unwrap();
             let mut e32 = FloatEngine::<f32>::new(c, structure, channels).unwrap();
             match build {
@@ -657,10 +660,9 @@ fn fixed_kernels_equal_the_literal_arithmetic_over_passes_and_waves() {
                 let mut want = x.clone();
                 let want_overflows = reference::fixed_cascade(&fixed, 1, &mut want);
                 for frames in [5000, 2047, 2049] {
-                    for baseline in [false, true] {
-                        let (got, overflows) =
-                            fixed_engine_in_blocks(&fixed, 1, &x, frames, baseline);
-                        let case = format!("{format:?} {structure:?} {frames} {baseline}");
+                    for build in BUILDS {
+                        let (got, overflows) = fixed_engine_in_blocks(&fixed, 1, &x, frames, build);
+                        let case = format!("{format:?} {structure:?} {frames} {build}");
                         assert!(got == want, "output differs: {case}");
                         assert_eq!(overflows, want_overflows, "{case}");
                     }
@@ -689,7 +691,7 @@ fn q31_sums_that_overflow_64_bits_saturate_and_wrap_exactly() {
             let mut want = x.clone();
             let want_overflows = reference::fixed_cascade(&fixed, 2, &mut want);
             assert!(want_overflows > 0, "{overflow:?} {structure}: no overflow exercised");
-            let (got, overflows) = fixed_engine_in_blocks(&fixed, 2, &x, 100, false);
+            let (got, overflows) = fixed_engine_in_blocks(&fixed, 2, &x, 100, "best");
             assert_eq!(got, want, "{overflow:?} {structure}");
             assert_eq!(overflows, want_overflows, "{overflow:?} {structure}");
         }
@@ -726,7 +728,7 @@ fn gains_one_lsb_either_side_of_one_narrow_exactly_at_the_edges_of_the_data_word
                         // One-frame blocks: a block that overflows anywhere runs
                         // exactly throughout, so each sample needs its own block here.
                         for frames in [1, 5] {
-                            let (got, n) = fixed_engine_in_blocks(&fixed, 1, &x, frames, false);
+                            let (got, n) = fixed_engine_in_blocks(&fixed, 1, &x, frames, "best");
                             let what = format!("{format:?} {structure} gain {g} by {frames}");
                             assert_eq!((&got, n), (&want, want_overflows), "{what}");
                         }

@@ -72,6 +72,8 @@ pub struct FixedEngine {
     state: Vec<[i64; 6]>,
     overflows: u64,
     choice: Choice,
+    /// The instruction set of `kernel` (set only after run-time detection).
+    isa: Isa,
     kernel: Kernel,
 }
 
@@ -411,8 +413,8 @@ fn blocks<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, co
     }
 }
 
-/// [`wavefront::run`] behind a safe signature; only [`Choice::kernel`] hands it out,
-/// and only with `avx2` set after run-time detection.
+/// [`wavefront::run`] behind a safe signature; only [`build`] hands it out, and only
+/// for an [`Isa`] found by run-time detection.
 #[cfg(target_arch = "x86_64")]
 fn wavefront_checked<
     const SAT: bool,
@@ -432,16 +434,46 @@ fn wavefront_checked<
     unsafe { wavefront::run::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, samples, ch, n) }
 }
 
-/// The scalar kernel, or on AVX2 the wavefront.
+/// [`wavefront::run_avx512`] behind a safe signature, handed out like
+/// [`wavefront_checked`].
+#[cfg(target_arch = "x86_64")]
+fn wavefront_avx512_checked<
+    const SAT: bool,
+    const EVEN: bool,
+    const EF: u32,
+    const DF2T: bool,
+    const WIDE: bool,
+>(
+    p: &Params,
+    secs: &[SectionCoefs],
+    state: &mut [[i64; 6]],
+    samples: &mut [i32],
+    ch: usize,
+    n: usize,
+) -> u64 {
+    // SAFETY: reachable only when the processor has AVX2, AVX-512F and VL (above).
+    unsafe { wavefront::run_avx512::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, samples, ch, n) }
+}
+
+/// The instruction sets a kernel may use, in increasing order.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
+enum Isa {
+    Scalar,
+    Avx2,
+    Avx512,
+}
+
+/// The scalar kernel, or the wavefront on AVX2 (with 32 registers on AVX-512).
 fn build<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
-    avx2: bool,
+    isa: Isa,
 ) -> Kernel {
-    #[cfg(target_arch = "x86_64")]
-    if avx2 {
-        return wavefront_checked::<SAT, EVEN, EF, DF2T, WIDE>;
+    match isa {
+        #[cfg(target_arch = "x86_64")]
+        Isa::Avx2 => wavefront_checked::<SAT, EVEN, EF, DF2T, WIDE>,
+        #[cfg(target_arch = "x86_64")]
+        Isa::Avx512 => wavefront_avx512_checked::<SAT, EVEN, EF, DF2T, WIDE>,
+        _ => run::<SAT, EVEN, EF, DF2T, WIDE>,
     }
-    let _ = avx2;
-    run::<SAT, EVEN, EF, DF2T, WIDE>
 }
 
 /// The choices of a format that pick a kernel.
@@ -456,44 +488,49 @@ struct Choice {
 }
 
 impl Choice {
-    /// The kernel for these choices, the AVX2 one when `avx2`.
-    fn kernel(self, avx2: bool) -> Kernel {
+    /// The kernel for these choices on `isa`.
+    fn kernel(self, isa: Isa) -> Kernel {
         match (self.sat, self.even) {
-            (true, true) => self.word::<true, true>(avx2),
-            (true, false) => self.word::<true, false>(avx2),
-            (false, true) => self.word::<false, true>(avx2),
-            (false, false) => self.word::<false, false>(avx2),
+            (true, true) => self.word::<true, true>(isa),
+            (true, false) => self.word::<true, false>(isa),
+            (false, true) => self.word::<false, true>(isa),
+            (false, false) => self.word::<false, false>(isa),
         }
     }
 
-    fn word<const SAT: bool, const EVEN: bool>(self, avx2: bool) -> Kernel {
+    fn word<const SAT: bool, const EVEN: bool>(self, isa: Isa) -> Kernel {
         if self.wide {
-            self.structure::<SAT, EVEN, true>(avx2)
+            self.structure::<SAT, EVEN, true>(isa)
         } else {
-            self.structure::<SAT, EVEN, false>(avx2)
+            self.structure::<SAT, EVEN, false>(isa)
         }
     }
 
-    fn structure<const SAT: bool, const EVEN: bool, const WIDE: bool>(self, avx2: bool) -> Kernel {
+    fn structure<const SAT: bool, const EVEN: bool, const WIDE: bool>(self, isa: Isa) -> Kernel {
         match (self.structure, self.error_feedback) {
-            (Structure::Df1, 0) => build::<SAT, EVEN, 0, false, WIDE>(avx2),
-            (Structure::Df1, 1) => build::<SAT, EVEN, 1, false, WIDE>(avx2),
-            (Structure::Df1, _) => build::<SAT, EVEN, 2, false, WIDE>(avx2),
-            (Structure::Df2t, _) => build::<SAT, EVEN, 0, true, WIDE>(avx2),
+            (Structure::Df1, 0) => build::<SAT, EVEN, 0, false, WIDE>(isa),
+            (Structure::Df1, 1) => build::<SAT, EVEN, 1, false, WIDE>(isa),
+            (Structure::Df1, _) => build::<SAT, EVEN, 2, false, WIDE>(isa),
+            (Structure::Df2t, _) => build::<SAT, EVEN, 0, true, WIDE>(isa),
         }
     }
 }
 
-/// Whether this x86-64 processor runs AVX2 instructions.
+/// The widest instruction set this x86-64 processor runs.
 #[cfg(target_arch = "x86_64")]
-fn avx2_detected() -> bool {
-    std::is_x86_feature_detected!("avx2")
+fn isa_detected() -> Isa {
+    use std::is_x86_feature_detected as has;
+    match (has!("avx2"), has!("avx512f") && has!("avx512vl")) {
+        (true, true) => Isa::Avx512,
+        (true, false) => Isa::Avx2,
+        _ => Isa::Scalar,
+    }
 }
 
-/// No AVX2 kernels off x86-64.
+/// Only scalar kernels off x86-64.
 #[cfg(not(target_arch = "x86_64"))]
-fn avx2_detected() -> bool {
-    false
+fn isa_detected() -> Isa {
+    Isa::Scalar
 }
 
 impl FixedEngine {
@@ -557,14 +594,24 @@ impl FixedEngine {
             wide: f.acc_bits > 56,
         };
         let state = vec![[0; 6]; sections.len() * channels];
-        let kernel = choice.kernel(avx2_detected());
-        Ok(Self { channels, params, sections, state, overflows: 0, choice, kernel })
+        let isa = isa_detected();
+        let kernel = choice.kernel(isa);
+        Ok(Self { channels, params, sections, state, overflows: 0, choice, isa, kernel })
     }
 
     /// The same engine with the scalar kernel only, even where AVX2 is available. The
     /// output and overflow count are identical; only the speed differs.
     pub fn baseline(mut self) -> Self {
-        self.kernel = self.choice.kernel(false);
+        self.isa = Isa::Scalar;
+        self.kernel = self.choice.kernel(self.isa);
+        self
+    }
+
+    /// The same engine without its AVX-512 build (the AVX2 one where available). The
+    /// output and overflow count are identical; only the speed differs.
+    pub fn without_avx512(mut self) -> Self {
+        self.isa = self.isa.min(Isa::Avx2);
+        self.kernel = self.choice.kernel(self.isa);
         self
     }
 

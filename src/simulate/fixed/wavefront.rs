@@ -44,6 +44,26 @@ pub(super) fn run<
     ch: usize,
     n: usize,
 ) -> u64 {
+    // SAFETY: this function has AVX2, all the body needs.
+    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, samples, ch, n) }
+}
+
+/// The body of [`run`] and [`run_avx512`], inlined into each.
+#[inline(always)]
+unsafe fn run_body<
+    const SAT: bool,
+    const EVEN: bool,
+    const EF: u32,
+    const DF2T: bool,
+    const WIDE: bool,
+>(
+    p: &Params,
+    secs: &[SectionCoefs],
+    state: &mut [[i64; 6]],
+    samples: &mut [i32],
+    ch: usize,
+    n: usize,
+) -> u64 {
     let mut count = 0;
     let (mut buf, mut before) = ([0i64; PASS], [0i64; PASS]);
     let ns = secs.len();
@@ -83,6 +103,30 @@ pub(super) fn run<
     count
 }
 
+/// [`run`] compiled where AVX-512F and VL are available: the same 256-bit code, which
+/// then has 32 vector registers instead of 16 for the states and constants of a wave.
+#[target_feature(enable = "avx2,avx512f,avx512vl")]
+pub(super) fn run_avx512<
+    const SAT: bool,
+    const EVEN: bool,
+    const EF: u32,
+    const DF2T: bool,
+    const WIDE: bool,
+>(
+    p: &Params,
+    secs: &[SectionCoefs],
+    state: &mut [[i64; 6]],
+    samples: &mut [i32],
+    ch: usize,
+    n: usize,
+) -> u64 {
+    // SAFETY: this function has AVX2, all the body needs.
+    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, samples, ch, n) }
+}
+
+// Every `unsafe fn` below uses AVX2 instructions: it is safe to call only from code
+// compiled with AVX2, which is where [`run`] and [`run_avx512`] inline all of them.
+
 /// Registers of one wave: `V` registers of four 64-bit lanes.
 type Regs<const V: usize> = [__m256i; V];
 
@@ -118,8 +162,8 @@ type States<const V: usize> = [Regs<V>; 6];
 /// Runs the sections `secs` (as many as the lanes of `V` registers; fewer only when
 /// `PASSING`) over the pass in `buf`, in place. Returns false, with `state` and `buf`
 /// to be restored by the caller, when a sum left its overflow-free range.
-#[target_feature(enable = "avx2")]
-fn wave<
+#[inline(always)]
+unsafe fn wave<
     const V: usize,
     const PASSING: bool,
     const EVEN: bool,
@@ -206,9 +250,8 @@ impl<const V: usize> Wave<V> {
     /// sample keep their states and mark nothing. Writes the last lane's output and
     /// moves every lane's output (or passed input) to the next lane. Marks `bad` (sign
     /// bit) where a sum left its range or an addition overflowed.
-    #[inline]
-    #[target_feature(enable = "avx2")]
-    fn step<
+    #[inline(always)]
+    unsafe fn step<
         const MASKED: bool,
         const PASSING: bool,
         const EVEN: bool,
@@ -299,9 +342,8 @@ impl<const V: usize> Wave<V> {
     /// logical shift floors it; the bias comes off after the shift as 2^(D−1). Nearest
     /// and floor add their addend first; even rounds the dropped bits apart. Lanes
     /// outside the fast range get values nobody keeps.
-    #[inline]
-    #[target_feature(enable = "avx2")]
-    fn round<const EVEN: bool>(&self, sum: __m256i, v: usize) -> __m256i {
+    #[inline(always)]
+    unsafe fn round<const EVEN: bool>(&self, sum: __m256i, v: usize) -> __m256i {
         let floor = |biased: __m256i| sub(_mm256_srlv_epi64(biased, self.r[v]), self.unbias);
         if EVEN {
             let q = floor(sub(sum, self.fast_lo[v]));
@@ -316,9 +358,8 @@ impl<const V: usize> Wave<V> {
 }
 
 /// `new` in the `active` lanes, `old` elsewhere; `new` everywhere unless `MASKED`.
-#[inline]
-#[target_feature(enable = "avx2")]
-fn keep<const MASKED: bool>(old: __m256i, new: __m256i, active: __m256i) -> __m256i {
+#[inline(always)]
+unsafe fn keep<const MASKED: bool>(old: __m256i, new: __m256i, active: __m256i) -> __m256i {
     if MASKED {
         _mm256_blendv_epi8(old, new, active)
     } else {
@@ -327,39 +368,34 @@ fn keep<const MASKED: bool>(old: __m256i, new: __m256i, active: __m256i) -> __m2
 }
 
 /// The first four values of `a`.
-#[inline]
-#[target_feature(enable = "avx2")]
-fn load(a: &[i64]) -> __m256i {
+#[inline(always)]
+unsafe fn load(a: &[i64]) -> __m256i {
     // SAFETY: the slice holds at least four values (checked by indexing).
     unsafe { _mm256_loadu_si256(a[..4].as_ptr().cast()) }
 }
 
 /// Writes the lanes to the first four values of `a`.
-#[inline]
-#[target_feature(enable = "avx2")]
-fn store(a: &mut [i64], r: __m256i) {
+#[inline(always)]
+unsafe fn store(a: &mut [i64], r: __m256i) {
     // SAFETY: the slice holds at least four values (checked by indexing).
     unsafe { _mm256_storeu_si256(a[..4].as_mut_ptr().cast(), r) }
 }
 
 /// Products of the low 32 bits of each lane, signed, exact in 64 bits.
-#[inline]
-#[target_feature(enable = "avx2")]
-fn mul(a: __m256i, b: __m256i) -> __m256i {
+#[inline(always)]
+unsafe fn mul(a: __m256i, b: __m256i) -> __m256i {
     _mm256_mul_epi32(a, b)
 }
 
 /// a − b, wrapping; used where it cannot overflow.
-#[inline]
-#[target_feature(enable = "avx2")]
-fn sub(a: __m256i, b: __m256i) -> __m256i {
+#[inline(always)]
+unsafe fn sub(a: __m256i, b: __m256i) -> __m256i {
     _mm256_sub_epi64(a, b)
 }
 
 /// a + b; with `WIDE` the sign bit of `marks` is set where it overflowed.
-#[inline]
-#[target_feature(enable = "avx2")]
-fn add<const WIDE: bool>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __m256i {
+#[inline(always)]
+unsafe fn add<const WIDE: bool>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __m256i {
     let r = _mm256_add_epi64(a, b);
     if WIDE {
         // Overflow: a and b of one sign, r of the other.
@@ -370,9 +406,8 @@ fn add<const WIDE: bool>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __m256i
 }
 
 /// a − b; with `WIDE` the sign bit of `marks` is set where it overflowed.
-#[inline]
-#[target_feature(enable = "avx2")]
-fn subtract<const WIDE: bool>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __m256i {
+#[inline(always)]
+unsafe fn subtract<const WIDE: bool>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __m256i {
     let r = _mm256_sub_epi64(a, b);
     if WIDE {
         // Overflow: a and b of different signs, r of b's sign.
@@ -383,9 +418,8 @@ fn subtract<const WIDE: bool>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __
 }
 
 /// All ones where `v` is below `lo` or above `hi`.
-#[inline]
-#[target_feature(enable = "avx2")]
-fn outside(v: __m256i, lo: __m256i, hi: __m256i) -> __m256i {
+#[inline(always)]
+unsafe fn outside(v: __m256i, lo: __m256i, hi: __m256i) -> __m256i {
     _mm256_or_si256(_mm256_cmpgt_epi64(lo, v), _mm256_cmpgt_epi64(v, hi))
 }
 
@@ -428,15 +462,20 @@ mod tests {
     /// Whether [`add`] and [`subtract`] mark each lane of `a` and `b`.
     #[target_feature(enable = "avx2")]
     fn marked(a: &[i64], b: &[i64; 4]) -> ([bool; 4], [bool; 4]) {
-        let (a, b) = (load(a), load(b));
+        // SAFETY: this function has AVX2.
+        let (a, b) = unsafe { (load(a), load(b)) };
         let lanes = |marks: __m256i| {
             let mut m = [0i64; 4];
-            store(&mut m, marks);
+            // SAFETY: this function has AVX2.
+            unsafe { store(&mut m, marks) };
             m.map(|v| v < 0)
         };
         let (mut plus, mut minus) = (_mm256_setzero_si256(), _mm256_setzero_si256());
-        add::<true>(a, b, &mut plus);
-        subtract::<true>(a, b, &mut minus);
+        // SAFETY: this function has AVX2.
+        unsafe {
+            add::<true>(a, b, &mut plus);
+            subtract::<true>(a, b, &mut minus);
+        }
         (lanes(plus), lanes(minus))
     }
 }
