@@ -6,7 +6,9 @@ sections of benches/eight-sections.toml.
 - tonewright apply of a one-section pass-through (gain 0 dB) in f64: reading and
   writing with (almost) no filtering, the baseline of the 1.5x target;
 - numpy + scipy.signal.sosfilt (float64): read with the wave module, filter the same
-  float64 sections (taken from `tonewright inspect --json`), write 16-bit.
+  float64 sections (taken from `tonewright inspect --json`), write 16-bit;
+- a batch: tonewright apply of the q15 output alone (one core per file) for one file
+  and for two, to show a batch of two files using both cores.
 
 Run from the crate root after `cargo build --release`:
     env -u OPENBLAS_CORETYPE -u OPENBLAS_L2_SIZE python3 benches/end_to_end.py
@@ -80,11 +82,27 @@ def main():
                 w.setframerate(RATE)
                 w.writeframes(np.clip(np.round(y * 32768.0), -32768, 32767).astype("<i2").tobytes())
 
+        second = os.path.join(tmp, "in2.wav")
+        with open(src, "rb") as a, open(second, "wb") as b:
+            b.write(a.read())
+        folder = os.path.join(tmp, "batch")
+        os.mkdir(folder)
+
+        def one_file():
+            subprocess.run([TOOL, "apply", DESIGN, src, "-o", out], check=True, capture_output=True)
+
+        def two_files():
+            subprocess.run([TOOL, "apply", DESIGN, src, second, "-o", folder],
+                           check=True, capture_output=True)
+
         t_tool, t_base, t_py = timed(tool), timed(baseline), timed(numpy_scipy)
+        t_one, t_two = timed(one_file), timed(two_files)
     print(f"scipy {scipy.__version__}, numpy {np.__version__}, load {os.getloadavg()[0]:.2f}")
     print(f"tonewright apply, q15 + f64 outputs : {t_tool:7.2f} s")
     print(f"tonewright apply, pass-through       : {t_base:7.2f} s  (ratio {t_tool / t_base:.2f}, target <= 1.5)")
     print(f"numpy + scipy.signal.sosfilt (f64)   : {t_py:7.2f} s  (tonewright / scipy {t_tool / t_py:.2f}, target < 0.5)")
+    print(f"tonewright apply, q15 only, one file : {t_one:7.2f} s")
+    print(f"tonewright apply, q15 only, two files: {t_two:7.2f} s  (throughput {2 * t_one / t_two:.2f}x one file, target close to 2)")
 
 
 if __name__ == "__main__":
