@@ -75,6 +75,8 @@ pub struct FixedEngine {
     /// The instruction set of `kernel` (set only after run-time detection).
     isa: Isa,
     kernel: Kernel,
+    /// The kernels' buffers.
+    scratch: Vec<i64>,
 }
 
 /// Word limits of one format, shared by every section.
@@ -112,7 +114,19 @@ struct SectionCoefs {
 }
 
 /// A specialised loop over one channel of an interleaved buffer; returns overflows.
-type Kernel = fn(&Params, &[SectionCoefs], &mut [[i64; 6]], &mut [i32], usize, usize) -> u64;
+/// Its last argument is the engine's scratch space of [`SCRATCH`] values, kept so that
+/// processing never allocates or clears large buffers.
+type Kernel = fn(&Params, &[SectionCoefs], &mut [[i64; 6]], Channel<'_>, &mut [i64]) -> u64;
+
+/// What a kernel runs over: channel `ch` of the `n`-channel `samples`.
+struct Channel<'a> {
+    samples: &'a mut [i32],
+    ch: usize,
+    n: usize,
+}
+
+/// Scratch values per engine: two passes of the wavefront.
+const SCRATCH: usize = 4096;
 
 /// Frames per block.
 const BLOCK: usize = 64;
@@ -357,23 +371,37 @@ fn exact<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, con
     }
 }
 
-/// The cascade over channel `ch` of an `n`-channel buffer, block by block.
+/// The cascade over one channel, block by block.
 fn run<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
-    samples: &mut [i32],
-    ch: usize,
-    n: usize,
+    io: Channel<'_>,
+    scratch: &mut [i64],
 ) -> u64 {
+    through::<SAT>(p, io, &mut scratch[..BLOCK], |buf, count| {
+        blocks::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, buf, count);
+    })
+}
+
+/// The samples of `io`'s channel, `buf.len()` frames at a time: fitted to the data word
+/// into `buf`, processed there by `f` (which adds its overflow events to the count),
+/// and written back. Returns the overflow events.
+#[inline(always)]
+fn through<const SAT: bool>(
+    p: &Params,
+    io: Channel<'_>,
+    buf: &mut [i64],
+    mut f: impl FnMut(&mut [i64], &mut u64),
+) -> u64 {
+    let Channel { samples, ch, n } = io;
     let mut count = 0;
-    let mut buf = [0i64; BLOCK];
-    for chunk in samples.chunks_mut(BLOCK * n) {
+    for chunk in samples.chunks_mut(buf.len() * n) {
         let buf = &mut buf[..chunk.len() / n];
         for (v, frame) in buf.iter_mut().zip(chunk.chunks_exact(n)) {
             *v = fit_data::<SAT>(i64::from(frame[ch]), p, &mut count);
         }
-        blocks::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, buf, &mut count);
+        f(buf, &mut count);
         for (v, frame) in buf.iter().zip(chunk.chunks_exact_mut(n)) {
             // Every value fits the data word, which is at most 32 bits wide.
             frame[ch] = *v as i32;
@@ -426,12 +454,11 @@ fn wavefront_checked<
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
-    samples: &mut [i32],
-    ch: usize,
-    n: usize,
+    io: Channel<'_>,
+    scratch: &mut [i64],
 ) -> u64 {
     // SAFETY: reachable only when the processor has AVX2 (above).
-    unsafe { wavefront::run::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, samples, ch, n) }
+    unsafe { wavefront::run::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch) }
 }
 
 /// [`wavefront::run_avx512`] behind a safe signature, handed out like
@@ -447,12 +474,11 @@ fn wavefront_avx512_checked<
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
-    samples: &mut [i32],
-    ch: usize,
-    n: usize,
+    io: Channel<'_>,
+    scratch: &mut [i64],
 ) -> u64 {
     // SAFETY: reachable only when the processor has AVX2, AVX-512F and VL (above).
-    unsafe { wavefront::run_avx512::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, samples, ch, n) }
+    unsafe { wavefront::run_avx512::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch) }
 }
 
 /// The instruction sets a kernel may use, in increasing order.
@@ -596,7 +622,8 @@ impl FixedEngine {
         let state = vec![[0; 6]; sections.len() * channels];
         let isa = isa_detected();
         let kernel = choice.kernel(isa);
-        Ok(Self { channels, params, sections, state, overflows: 0, choice, isa, kernel })
+        let scratch = vec![0; SCRATCH];
+        Ok(Self { channels, params, sections, state, overflows: 0, choice, isa, kernel, scratch })
     }
 
     /// The same engine with the scalar kernel only, even where AVX2 is available. The
@@ -642,8 +669,13 @@ impl Engine for FixedEngine {
         let ns = self.sections.len();
         for ch in 0..self.channels {
             let state = &mut self.state[ch * ns..(ch + 1) * ns];
-            self.overflows +=
-                (self.kernel)(&self.params, &self.sections, state, frames, ch, self.channels);
+            self.overflows += (self.kernel)(
+                &self.params,
+                &self.sections,
+                state,
+                Channel { samples: frames, ch, n: self.channels },
+                &mut self.scratch,
+            );
         }
         Ok(())
     }

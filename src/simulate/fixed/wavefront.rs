@@ -11,7 +11,7 @@
 //! unmarked one has done only fits that are the identity, so both paths agree bit
 //! for bit (tests/fixed_point.rs compares them with the literal arithmetic).
 
-use super::{blocks, fit_data, Params, SectionCoefs};
+use super::{blocks, through, Channel, Params, SectionCoefs};
 use std::arch::x86_64::{
     __m256i, _mm256_add_epi64, _mm256_and_si256, _mm256_blend_epi32, _mm256_blendv_epi8,
     _mm256_castsi256_pd, _mm256_cmpgt_epi64, _mm256_extract_epi64, _mm256_loadu_si256,
@@ -23,9 +23,15 @@ use std::arch::x86_64::{
 /// Frames per pass: a marked wave redoes one pass; the 2 (lanes − 1) masked steps that
 /// fill and drain it are under 3 % of the steps for 8 sections.
 const PASS: usize = 2048;
+const _: () = assert!(2 * PASS <= super::SCRATCH, "two passes fit the engine's scratch");
 
 /// Sections per wave: two registers of four 64-bit lanes per state.
 const WAVE: usize = 8;
+
+/// Passes shorter than this run the scalar path: filling and draining the wavefront
+/// (2 (lanes − 1) steps) would cost more than the samples (the limit-cycle search runs
+/// one frame at a time).
+const SHORT: usize = 64;
 
 /// The cascade over channel `ch` of an `n`-channel buffer, pass by pass and wave by
 /// wave; returns the overflow events (only the scalar path meets any).
@@ -40,12 +46,11 @@ pub(super) fn run<
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
-    samples: &mut [i32],
-    ch: usize,
-    n: usize,
+    io: Channel<'_>,
+    scratch: &mut [i64],
 ) -> u64 {
     // SAFETY: this function has AVX2, all the body needs.
-    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, samples, ch, n) }
+    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch) }
 }
 
 /// The body of [`run`] and [`run_avx512`], inlined into each.
@@ -60,47 +65,49 @@ unsafe fn run_body<
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
-    samples: &mut [i32],
-    ch: usize,
-    n: usize,
+    io: Channel<'_>,
+    scratch: &mut [i64],
 ) -> u64 {
-    let mut count = 0;
-    let (mut buf, mut before) = ([0i64; PASS], [0i64; PASS]);
+    let (buf, before) = scratch[..2 * PASS].split_at_mut(PASS);
     let ns = secs.len();
     let waves = ns.div_ceil(WAVE);
-    for pass in samples.chunks_mut(PASS * n) {
-        let m = pass.len() / n;
-        let (buf, before) = (&mut buf[..m], &mut before[..m]);
-        for (v, frame) in buf.iter_mut().zip(pass.chunks_exact(n)) {
-            *v = fit_data::<SAT>(i64::from(frame[ch]), p, &mut count);
-        }
-        let mut k = 0;
-        for w in 0..waves {
-            // The first ns % waves waves take one section more.
-            let size = ns / waves + usize::from(w < ns % waves);
-            let (secs, state) = (&secs[k..k + size], &mut state[k..k + size]);
-            let saved: [[i64; 6]; WAVE] =
-                std::array::from_fn(|i| state.get(i).copied().unwrap_or_default());
-            before.copy_from_slice(buf);
-            let done = match size {
-                4 => wave::<1, false, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
-                8 => wave::<2, false, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
-                1..=3 => wave::<1, true, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
-                _ => wave::<2, true, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
-            };
-            if !done {
-                state.copy_from_slice(&saved[..size]);
-                buf.copy_from_slice(before);
-                blocks::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, buf, &mut count);
+    through::<SAT>(
+        p,
+        io,
+        buf,
+        // Inlined so the waves compile in the caller's instruction set, not the
+        // closure's own (baseline) one.
+        #[inline(always)]
+        |buf, count| {
+            let m = buf.len();
+            if m < SHORT {
+                blocks::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, buf, count);
+                return;
             }
-            k += size;
-        }
-        for (v, frame) in buf.iter().zip(pass.chunks_exact_mut(n)) {
-            // Every value fits the data word, which is at most 32 bits wide.
-            frame[ch] = *v as i32;
-        }
-    }
-    count
+            let before = &mut before[..m];
+            let mut k = 0;
+            for w in 0..waves {
+                // The first ns % waves waves take one section more.
+                let size = ns / waves + usize::from(w < ns % waves);
+                let (secs, state) = (&secs[k..k + size], &mut state[k..k + size]);
+                let saved: [[i64; 6]; WAVE] =
+                    std::array::from_fn(|i| state.get(i).copied().unwrap_or_default());
+                before.copy_from_slice(buf);
+                let done = match size {
+                    4 => wave::<1, false, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
+                    8 => wave::<2, false, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
+                    1..=3 => wave::<1, true, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
+                    _ => wave::<2, true, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
+                };
+                if !done {
+                    state.copy_from_slice(&saved[..size]);
+                    buf.copy_from_slice(before);
+                    blocks::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, buf, count);
+                }
+                k += size;
+            }
+        },
+    )
 }
 
 /// [`run`] compiled where AVX-512F and VL are available: the same 256-bit code, which
@@ -116,12 +123,11 @@ pub(super) fn run_avx512<
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
-    samples: &mut [i32],
-    ch: usize,
-    n: usize,
+    io: Channel<'_>,
+    scratch: &mut [i64],
 ) -> u64 {
     // SAFETY: this function has AVX2, all the body needs.
-    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, samples, ch, n) }
+    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch) }
 }
 
 // Every `unsafe fn` below uses AVX2 instructions: it is safe to call only from code
