@@ -441,8 +441,9 @@ fn blocks<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, co
     }
 }
 
-/// [`wavefront::run`] behind a safe signature; only [`build`] hands it out, and only
-/// for an [`Isa`] found by run-time detection.
+/// [`wavefront::run`], or with `AVX512` [`wavefront::run_avx512`], behind a safe
+/// signature; only [`build`] hands it out, and only for an [`Isa`] found by run-time
+/// detection.
 #[cfg(target_arch = "x86_64")]
 fn wavefront_checked<
     const SAT: bool,
@@ -450,6 +451,7 @@ fn wavefront_checked<
     const EF: u32,
     const DF2T: bool,
     const WIDE: bool,
+    const AVX512: bool,
 >(
     p: &Params,
     secs: &[SectionCoefs],
@@ -457,28 +459,15 @@ fn wavefront_checked<
     io: Channel<'_>,
     scratch: &mut [i64],
 ) -> u64 {
-    // SAFETY: reachable only when the processor has AVX2 (above).
-    unsafe { wavefront::run::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch) }
-}
-
-/// [`wavefront::run_avx512`] behind a safe signature, handed out like
-/// [`wavefront_checked`].
-#[cfg(target_arch = "x86_64")]
-fn wavefront_avx512_checked<
-    const SAT: bool,
-    const EVEN: bool,
-    const EF: u32,
-    const DF2T: bool,
-    const WIDE: bool,
->(
-    p: &Params,
-    secs: &[SectionCoefs],
-    state: &mut [[i64; 6]],
-    io: Channel<'_>,
-    scratch: &mut [i64],
-) -> u64 {
-    // SAFETY: reachable only when the processor has AVX2, AVX-512F and VL (above).
-    unsafe { wavefront::run_avx512::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch) }
+    // SAFETY: reachable only when the processor has AVX2, and AVX-512F and VL for
+    // `AVX512` (above).
+    unsafe {
+        if AVX512 {
+            wavefront::run_avx512::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch)
+        } else {
+            wavefront::run::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch)
+        }
+    }
 }
 
 /// The instruction sets a kernel may use, in increasing order.
@@ -495,9 +484,9 @@ fn build<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, con
 ) -> Kernel {
     match isa {
         #[cfg(target_arch = "x86_64")]
-        Isa::Avx2 => wavefront_checked::<SAT, EVEN, EF, DF2T, WIDE>,
+        Isa::Avx2 => wavefront_checked::<SAT, EVEN, EF, DF2T, WIDE, false>,
         #[cfg(target_arch = "x86_64")]
-        Isa::Avx512 => wavefront_avx512_checked::<SAT, EVEN, EF, DF2T, WIDE>,
+        Isa::Avx512 => wavefront_checked::<SAT, EVEN, EF, DF2T, WIDE, true>,
         _ => run::<SAT, EVEN, EF, DF2T, WIDE>,
     }
 }
