@@ -60,9 +60,11 @@ mod wavefront;
 /// 64 bits (every format with A ≤ 56, where coef_bits + data_bits ≤ 56) are formed in
 /// i64 directly; with A = 64 each sum is formed in i64 with overflow detection and only
 /// a sum that overflowed is formed again in i128. The cascade runs block by block with
-/// groups of sections holding their states in registers; results are the same for any
-/// block size and channel count (tests/fixed_point.rs compares every format, rounding,
-/// overflow and structure with a literal i128 evaluation of the arithmetic above).
+/// groups of sections holding their states in registers, or on AVX2 as a wavefront
+/// over the sections (`wavefront.rs`); results are the same for any block size,
+/// channel count and instruction set (tests/fixed_point.rs compares every format,
+/// rounding, overflow and structure with a literal i128 evaluation of the arithmetic
+/// above).
 #[derive(Debug, Clone)]
 pub struct FixedEngine {
     channels: usize,
