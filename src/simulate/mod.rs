@@ -18,6 +18,7 @@
 mod convert;
 mod fixed;
 mod float;
+mod isa;
 mod runner;
 
 pub use convert::SampleScale;
@@ -26,6 +27,7 @@ pub use float::{FloatEngine, FloatSample};
 pub use runner::Runner;
 
 use crate::error::{Error, Result};
+use isa::Isa;
 
 /// One block interface shared by every engine.
 pub trait Engine {

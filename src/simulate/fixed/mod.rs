@@ -1,7 +1,7 @@
 //! The bit-exact fixed-point engine: direct form I (with optional error feedback) and
 //! transposed direct form II, in the exact widths, rounding and overflow of a format.
 
-use super::{check_channels, check_frames, Engine};
+use super::{check_channels, check_frames, Engine, Isa};
 use crate::error::Result;
 use crate::quantize::{FixedCascade, Overflow, Rounding, Structure};
 
@@ -472,14 +472,6 @@ fn wavefront_checked<
     }
 }
 
-/// The instruction sets a kernel may use, in increasing order.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
-enum Isa {
-    Scalar,
-    Avx2,
-    Avx512,
-}
-
 /// The scalar kernel, or the wavefront on AVX2 (with 32 registers on AVX-512).
 fn build<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
     isa: Isa,
@@ -531,23 +523,6 @@ impl Choice {
             (Structure::Df2t, _) => build::<SAT, EVEN, 0, true, WIDE>(isa),
         }
     }
-}
-
-/// The widest instruction set this x86-64 processor runs.
-#[cfg(target_arch = "x86_64")]
-fn isa_detected() -> Isa {
-    use std::is_x86_feature_detected as has;
-    match (has!("avx2"), has!("avx512f") && has!("avx512vl")) {
-        (true, true) => Isa::Avx512,
-        (true, false) => Isa::Avx2,
-        _ => Isa::Scalar,
-    }
-}
-
-/// Only scalar kernels off x86-64.
-#[cfg(not(target_arch = "x86_64"))]
-fn isa_detected() -> Isa {
-    Isa::Scalar
 }
 
 impl FixedEngine {
@@ -611,7 +586,7 @@ impl FixedEngine {
             wide: f.acc_bits > 56,
         };
         let state = vec![[0; 6]; sections.len() * channels];
-        let isa = isa_detected();
+        let isa = Isa::detected();
         let kernel = choice.kernel(isa);
         let scratch = vec![0; SCRATCH];
         Ok(Self { channels, params, sections, state, overflows: 0, choice, isa, kernel, scratch })
@@ -620,7 +595,7 @@ impl FixedEngine {
     /// The same engine with the scalar kernel only, even where AVX2 is available. The
     /// output and overflow count are identical; only the speed differs.
     pub fn baseline(mut self) -> Self {
-        self.isa = Isa::Scalar;
+        self.isa = Isa::Baseline;
         self.kernel = self.choice.kernel(self.isa);
         self
     }

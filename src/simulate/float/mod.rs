@@ -9,7 +9,7 @@
 //! the instruction set: on x86-64 the channel-lane kernels are compiled a second time
 //! for AVX2, and the AVX2 kernels are chosen at run time when the processor has it.
 
-use super::{check_channels, check_frames, Engine};
+use super::{check_channels, check_frames, Engine, Isa};
 use crate::error::Result;
 use crate::quantize::Structure;
 use crate::sections::Cascade;
@@ -52,10 +52,8 @@ pub struct FloatEngine<T> {
     state: Vec<T>,
     /// Widths of the lane groups, adding up to `channels`.
     lanes: Vec<usize>,
-    /// Whether the AVX2 build of the kernels runs (set only after run-time detection).
-    avx2: bool,
-    /// Whether the AVX-512 wavefront runs for f64 (set only after run-time detection).
-    avx512: bool,
+    /// The instruction set of the kernels (set only after run-time detection).
+    isa: Isa,
 }
 
 impl<T: FloatSample> FloatEngine<T> {
@@ -90,15 +88,7 @@ impl<T: FloatSample> FloatEngine<T> {
             lanes.push(width);
             left -= width;
         }
-        Ok(Self {
-            structure,
-            channels,
-            coefs,
-            state,
-            lanes,
-            avx2: avx2_detected(),
-            avx512: avx512_detected(),
-        })
+        Ok(Self { structure, channels, coefs, state, lanes, isa: Isa::detected() })
     }
 
     /// The same engine restricted to the baseline instruction set (SSE2 on x86-64),
@@ -119,41 +109,16 @@ impl<T: FloatSample> FloatEngine<T> {
     /// assert_eq!(a, b); // bit for bit, within 0 ulp
     /// ```
     pub fn baseline(mut self) -> Self {
-        self.avx2 = false;
-        self.avx512 = false;
+        self.isa = Isa::Baseline;
         self
     }
 
     /// The same engine without its AVX-512 kernel (the f64 wavefront then runs in
     /// AVX2 registers). The output is identical; only the speed differs.
     pub fn without_avx512(mut self) -> Self {
-        self.avx512 = false;
+        self.isa = self.isa.min(Isa::Avx2);
         self
     }
-}
-
-/// Whether this x86-64 processor runs AVX2 instructions.
-#[cfg(target_arch = "x86_64")]
-fn avx2_detected() -> bool {
-    std::is_x86_feature_detected!("avx2")
-}
-
-/// Whether this x86-64 processor runs the AVX-512 instructions the f64 wavefront uses.
-#[cfg(target_arch = "x86_64")]
-fn avx512_detected() -> bool {
-    std::is_x86_feature_detected!("avx512f") && std::is_x86_feature_detected!("avx512dq")
-}
-
-/// No AVX2 build off x86-64.
-#[cfg(not(target_arch = "x86_64"))]
-fn avx2_detected() -> bool {
-    false
-}
-
-/// No AVX-512 build off x86-64.
-#[cfg(not(target_arch = "x86_64"))]
-fn avx512_detected() -> bool {
-    false
 }
 
 /// The kernels of one float type; sealed (the module is private), so only f32 and
@@ -161,59 +126,53 @@ fn avx512_detected() -> bool {
 mod sealed {
     /// The fastest kernel a type has for a structure and lane group width.
     pub trait Kernels: Sized {
-        /// See [`super::kernel`]; `avx2` and `avx512` only when the processor has them.
-        fn kernel(
-            structure: super::Structure,
-            lanes: usize,
-            avx2: bool,
-            avx512: bool,
-        ) -> super::Run<Self>;
+        /// See [`super::kernel`]; `isa` only as wide as the processor runs.
+        fn kernel(structure: super::Structure, lanes: usize, isa: super::Isa) -> super::Run<Self>;
     }
 }
 use sealed::Kernels;
 
 impl Kernels for f64 {
-    fn kernel(structure: Structure, lanes: usize, avx2: bool, avx512: bool) -> Run<f64> {
-        fastest::<f64>(structure, lanes, avx2, avx512)
+    fn kernel(structure: Structure, lanes: usize, isa: Isa) -> Run<f64> {
+        fastest::<f64>(structure, lanes, isa)
     }
 }
 
 impl Kernels for f32 {
-    fn kernel(structure: Structure, lanes: usize, avx2: bool, avx512: bool) -> Run<f32> {
-        fastest::<f32>(structure, lanes, avx2, avx512)
+    fn kernel(structure: Structure, lanes: usize, isa: Isa) -> Run<f32> {
+        fastest::<f32>(structure, lanes, isa)
     }
 }
 
 /// On AVX2, one or two channels in df2t run the wavefront (two channels of f64 in
-/// AVX-512 registers when `avx512`); everything else runs [`kernel`].
+/// AVX-512 registers on AVX-512); everything else runs [`kernel`].
 #[cfg(target_arch = "x86_64")]
 fn fastest<T: FloatSample + wavefront::Lane>(
     structure: Structure,
     lanes: usize,
-    avx2: bool,
-    avx512: bool,
+    isa: Isa,
 ) -> Run<T> {
-    if avx2 && structure == Structure::Df2t && lanes <= 2 {
+    if isa >= Isa::Avx2 && structure == Structure::Df2t && lanes <= 2 {
         // One channel waits on the recursion, where AVX-512's longer lane permute
         // costs more than its registers save (measured); two channels gain.
-        return match (lanes, avx512) {
+        return match (lanes, isa == Isa::Avx512) {
             (1, _) => wavefront_checked::<T, 1, false>,
             (_, false) => wavefront_checked::<T, 2, false>,
             (_, true) => wavefront_checked::<T, 2, true>,
         };
     }
-    kernel::<T>(structure, lanes, avx2)
+    kernel::<T>(structure, lanes, isa >= Isa::Avx2)
 }
 
 /// Off x86-64, [`kernel`].
 #[cfg(not(target_arch = "x86_64"))]
-fn fastest<T: FloatSample>(structure: Structure, lanes: usize, avx2: bool, _: bool) -> Run<T> {
-    kernel::<T>(structure, lanes, avx2)
+fn fastest<T: FloatSample>(structure: Structure, lanes: usize, _: Isa) -> Run<T> {
+    kernel::<T>(structure, lanes, false)
 }
 
 /// [`wavefront::run`] behind a safe signature; only [`fastest`] hands it out, and only
-/// when `avx2` (and for `WIDE`, `avx512`) is true, which [`FloatEngine`] sets only
-/// after run-time detection.
+/// for AVX2 (and with `WIDE`, AVX-512), which [`FloatEngine`] records only after
+/// run-time detection.
 #[cfg(target_arch = "x86_64")]
 fn wavefront_checked<T: wavefront::Lane, const CH: usize, const WIDE: bool>(
     coefs: &[[T; 5]],
@@ -254,7 +213,7 @@ unsafe fn run_avx2<T, K: Kernel<T>>(
 }
 
 /// [`run_avx2`] behind a safe signature; only [`build`] hands it out, and only when
-/// `avx2` is true, which [`FloatEngine`] sets only after run-time detection.
+/// `avx2` is true, which follows [`FloatEngine`]'s run-time detection.
 #[cfg(target_arch = "x86_64")]
 fn run_avx2_checked<T, K: Kernel<T>>(
     coefs: &[[T; 5]],
@@ -304,7 +263,7 @@ impl<T: FloatSample> Engine for FloatEngine<T> {
         let per_channel = self.coefs.len() * 4;
         let mut first = 0;
         for &width in &self.lanes {
-            let run = T::kernel(self.structure, width, self.avx2, self.avx512);
+            let run = T::kernel(self.structure, width, self.isa);
             let state = &mut self.state[first * per_channel..(first + width) * per_channel];
             run(&self.coefs, state, frames, first, self.channels);
             first += width;
