@@ -25,6 +25,7 @@ pub mod discretize;
 pub mod error;
 pub mod export;
 mod markup;
+mod offset_rounding;
 pub mod pipeline;
 pub mod plot;
 pub mod quantize;

@@ -14,6 +14,7 @@ use super::wav_format::{
 };
 use crate::atomic_file::AtomicFile;
 use crate::error::{Error, Result};
+use crate::offset_rounding::{integer_of, OFFSET};
 use serde::Serialize;
 use std::io::{Seek, SeekFrom, Write};
 use std::path::Path;
@@ -240,13 +241,9 @@ fn encode<const BYTES: usize, const BITS: u32>(
     mut dither: impl FnMut() -> f64,
 ) -> u64 {
     let scale = 1.0 / int_step(BITS as u16);
-    // Adding 1.5·2^52, where one unit is the last mantissa bit, rounds v to the
-    // nearest integer, ties to even (IEEE 754 default rounding), for |v| < 2^51 and
-    // leaves that integer in two's complement in the low 32 bits of the sum. Clipping
-    // the sum to the offset extreme codes (exact) clips the code, so the loop needs no
-    // float-to-integer conversion and vectorises. Rounding is monotone: a larger |v|
-    // still lands beyond an extreme code and is clipped and counted.
-    const OFFSET: f64 = 6_755_399_441_055_744.0;
+    // Rounded by the offset (see `offset_rounding`). Clipping the sum to the offset
+    // extreme codes (exact) clips the code. Rounding is monotone: a larger |v| still
+    // lands beyond an extreme code and is clipped and counted.
     let (lo, hi) = (OFFSET - scale, OFFSET + scale - 1.0);
     let mut clipped = 0;
     for (b, &x) in out.chunks_exact_mut(BYTES).zip(samples) {
@@ -254,7 +251,7 @@ fn encode<const BYTES: usize, const BITS: u32>(
         // A NaN sum stays NaN through the clamp and differs from itself: a clip.
         let c = sum.clamp(lo, hi);
         clipped += u64::from(c != sum);
-        let code = c.to_bits() as u32;
+        let code = integer_of(c);
         if BYTES == 1 {
             b[0] = code as u8 ^ 0x80;
         } else {

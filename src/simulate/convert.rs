@@ -1,6 +1,7 @@
 //! Conversion between fractions of full scale and integer samples of a data word.
 
 use crate::error::{Error, Result};
+use crate::offset_rounding;
 
 /// The scale of a `data_bits`-bit sample word: full scale 1.0 is 2^(data_bits−1).
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -55,16 +56,13 @@ impl SampleScale {
     /// ```
     #[inline]
     pub fn to_int(&self, x: f64) -> i32 {
-        // Adding 1.5·2^52 to |v| < 2^51 rounds it to the nearest integer, ties to even
-        // (IEEE 754 default rounding), and leaves that integer in the low bits of the
-        // sum's representation: no libm call, no saturating cast, so loops over blocks
-        // vectorise. The clamp to the word's integer ends commutes with the rounding.
-        const ROUND: f64 = 6_755_399_441_055_744.0;
+        // Rounded by the offset (see `offset_rounding`): no libm call and no saturating
+        // cast, so loops over blocks vectorise.
         let (lo, hi) = (f64::from(self.min()), f64::from(self.max()));
         let v = (x * self.full_scale).clamp(lo, hi);
         // NaN passes the clamp; it maps to 0.
         let v = if v.is_nan() { 0.0 } else { v };
-        (v + ROUND).to_bits() as i32
+        offset_rounding::integer_of(v + offset_rounding::OFFSET) as i32
     }
 
     /// A sample as a fraction of full scale.
