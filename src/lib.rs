@@ -24,6 +24,7 @@ pub mod design;
 pub mod discretize;
 pub mod error;
 pub mod export;
+mod isa;
 mod markup;
 mod offset_rounding;
 pub mod pipeline;

@@ -22,6 +22,20 @@
 //! 2. S. P. Lipshitz, R. A. Wannamaker, J. Vanderkooy, "Quantization and dither: a
 //!    theoretical survey", JAES 40(5), 1992.
 
+use crate::isa::Isa;
+
+/// The state increment of SplitMix64 (the odd integer nearest 2^64/φ).
+const GAMMA: u64 = 0x9E37_79B9_7F4A_7C15;
+
+/// SplitMix64's output function of a state. The i-th output is `mix(seed + i·GAMMA)`,
+/// a function of i alone, so a block of outputs needs no chain from one to the next.
+#[inline(always)]
+fn mix(mut z: u64) -> u64 {
+    z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+    z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+    z ^ (z >> 31)
+}
+
 /// The SplitMix64 pseudo-random generator.
 #[derive(Debug, Clone)]
 pub struct SplitMix64 {
@@ -36,11 +50,8 @@ impl SplitMix64 {
 
     /// The next 64 random bits.
     pub fn next_u64(&mut self) -> u64 {
-        self.state = self.state.wrapping_add(0x9E37_79B9_7F4A_7C15);
-        let mut z = self.state;
-        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
-        z ^ (z >> 31)
+        self.state = self.state.wrapping_add(GAMMA);
+        mix(self.state)
     }
 
     /// A uniform number in [0, 1) with 53 random bits.
@@ -72,12 +83,43 @@ impl TpdfDither {
     /// assert!(mean.abs() < 0.0065);
     /// ```
     pub fn next_lsb(&mut self) -> f64 {
-        // The two uniforms are the two 32-bit halves of one output: independent, on a
-        // grid of 2^−32 LSB (far below anything a sample word resolves), at half the
-        // cost of two draws.
-        let r = self.rng.next_u64();
-        ((r >> 32) as f64 - (r & 0xFFFF_FFFF) as f64) * (1.0 / 4_294_967_296.0)
+        triangular(self.rng.next_u64())
     }
+
+    /// The next `out.len()` dither values, the same as as many calls of
+    /// [`TpdfDither::next_lsb`], computed side by side (each from its own state).
+    ///
+    /// ```
+    /// use tonewright::audio::dither::TpdfDither;
+    /// let (mut one, mut block) = (TpdfDither::new(9), TpdfDither::new(9));
+    /// let mut values = [0.0; 5];
+    /// block.fill(&mut values);
+    /// assert!(values.iter().all(|&v| v == one.next_lsb()));
+    /// assert_eq!(block.next_lsb(), one.next_lsb());
+    /// ```
+    pub fn fill(&mut self, out: &mut [f64]) {
+        let start = self.rng.state;
+        Isa::run_widest(
+            #[inline(always)]
+            || {
+                let mut state = start;
+                for v in out.iter_mut() {
+                    state = state.wrapping_add(GAMMA);
+                    *v = triangular(mix(state));
+                }
+            },
+        );
+        self.rng.state = start.wrapping_add(GAMMA.wrapping_mul(out.len() as u64));
+    }
+}
+
+/// A triangular value on (−1, +1) from 64 random bits.
+#[inline(always)]
+fn triangular(r: u64) -> f64 {
+    // The two uniforms are the two 32-bit halves of one output: independent, on a
+    // grid of 2^−32 LSB (far below anything a sample word resolves), at half the cost
+    // of two draws.
+    (f64::from((r >> 32) as u32) - f64::from(r as u32)) * (1.0 / 4_294_967_296.0)
 }
 
 #[cfg(test)]
@@ -91,6 +133,20 @@ mod tests {
         let mut rng = SplitMix64::new(0);
         assert_eq!(rng.next_u64(), 0xE220_A839_7B1D_CDAF);
         assert_eq!(rng.next_u64(), 0x6E78_9E6A_A1B9_65F4);
+    }
+
+    #[test]
+    fn blocks_of_dither_continue_the_one_at_a_time_sequence() {
+        for seed in [0, 7, u64::MAX - 3] {
+            let (mut one, mut blocks) = (TpdfDither::new(seed), TpdfDither::new(seed));
+            for len in [0, 1, 7, 1000, 33] {
+                let mut values = vec![0.0; len];
+                blocks.fill(&mut values);
+                for v in values {
+                    assert_eq!(v.to_bits(), one.next_lsb().to_bits(), "seed {seed}");
+                }
+            }
+        }
     }
 
     #[test]

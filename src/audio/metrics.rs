@@ -21,6 +21,7 @@
 
 use super::SampleFormat;
 use crate::error::{Error, Result};
+use crate::isa::Isa;
 use serde::Serialize;
 use std::f64::consts::PI;
 
@@ -45,6 +46,10 @@ pub struct ChannelLevels {
     pub clipped: u64,
 }
 
+/// Samples in a run of whole frames when the channel count divides it: a fixed-size run
+/// lets the meter's loop vectorise completely.
+const RUN: usize = 24;
+
 /// Accumulates per-channel peak, RMS and clipped samples over a stream of blocks.
 ///
 /// The accumulators are lanes over a run of whole frames (24 samples when the channel
@@ -67,7 +72,7 @@ impl LevelMeter {
     /// positive value (32767/32768 for 16-bit).
     pub fn new(channels: u16, format: SampleFormat) -> LevelMeter {
         let n = usize::from(channels.max(1));
-        let lanes = if 24 % n == 0 { 24 } else { n };
+        let lanes = if RUN.is_multiple_of(n) { RUN } else { n };
         LevelMeter {
             channels: n,
             positive_full_scale: format.positive_full_scale(),
@@ -80,18 +85,36 @@ impl LevelMeter {
 
     /// Adds a block of interleaved frames; a trailing partial frame is ignored.
     pub fn add(&mut self, block: &[f64]) {
-        let n = self.channels;
-        let frames = block.len() / n;
-        let full = self.positive_full_scale;
-        // Each run, the last one too, starts on a frame, so lanes keep their channels.
-        for run in block[..frames * n].chunks(self.peak.len()) {
-            let lanes = self.sum_squares.iter_mut().zip(self.peak.iter_mut());
-            for ((&x, (sum, peak)), clipped) in run.iter().zip(lanes).zip(self.clipped.iter_mut()) {
-                *sum += x * x;
-                *peak = peak.max(x.abs());
-                *clipped += u64::from(x <= -1.0 || x >= full);
-            }
-        }
+        let frames = block.len() / self.channels;
+        let block = &block[..frames * self.channels];
+        Isa::run_widest(
+            #[inline(always)]
+            || match (
+                <&mut [f64; RUN]>::try_from(&mut self.peak[..]),
+                <&mut [f64; RUN]>::try_from(&mut self.sum_squares[..]),
+                <&mut [u64; RUN]>::try_from(&mut self.clipped[..]),
+            ) {
+                // Exactly RUN lanes, not just at least: 25 channels keep 25.
+                (Ok(peak), Ok(sum), Ok(clipped)) => {
+                    let (runs, rest) = block.as_chunks::<RUN>();
+                    for run in runs {
+                        meter(run, peak, sum, clipped, self.positive_full_scale);
+                    }
+                    meter(rest, peak, sum, clipped, self.positive_full_scale);
+                }
+                _ => {
+                    for run in block.chunks(self.peak.len()) {
+                        meter(
+                            run,
+                            &mut self.peak,
+                            &mut self.sum_squares,
+                            &mut self.clipped,
+                            self.positive_full_scale,
+                        );
+                    }
+                }
+            },
+        );
         self.frames += frames as u64;
     }
 
@@ -110,6 +133,16 @@ impl LevelMeter {
                 clipped: lanes(c).map(|l| self.clipped[l]).sum(),
             })
             .collect()
+    }
+}
+
+/// Adds one run of samples (starting on a frame) to the lanes it meets.
+#[inline(always)]
+fn meter(run: &[f64], peak: &mut [f64], sum: &mut [f64], clipped: &mut [u64], full: f64) {
+    for (((&x, sum), peak), clipped) in run.iter().zip(sum).zip(peak).zip(clipped) {
+        *sum += x * x;
+        *peak = peak.max(x.abs());
+        *clipped += u64::from(x <= -1.0 || x >= full);
     }
 }
 
@@ -226,6 +259,36 @@ mod tests {
         assert!((l.rms_dbfs + 3.0103).abs() < 1e-3, "{l:?}");
         // Peaks touch ±1.0 exactly at quarter periods (48 samples per period).
         assert!(l.clipped > 0);
+    }
+
+    #[test]
+    fn meter_lanes_equal_a_plain_per_channel_count_for_any_channels_and_blocks() {
+        // Channel counts that divide the 24-sample run and ones that do not; blocks that
+        // end mid-run and a trailing partial frame.
+        let mut rng = crate::audio::dither::SplitMix64::new(5);
+        let x: Vec<f64> = (0..2411).map(|_| 2.2 * rng.next_f64() - 1.1).collect();
+        for channels in [1usize, 2, 3, 5, 7, 25] {
+            let mut meter = LevelMeter::new(channels as u16, SampleFormat::Int { bits: 16 });
+            let mut start = 0;
+            for len in [1, 23, 24, 25, 500].iter().cycle().map(|f| f * channels) {
+                let end = (start + len).min(x.len());
+                meter.add(&x[start..end]);
+                start = end - (end - start) % channels;
+                if end == x.len() {
+                    break;
+                }
+            }
+            let frames = start / channels;
+            for (c, got) in meter.levels().iter().enumerate() {
+                let ch: Vec<f64> = x[..start].iter().skip(c).step_by(channels).copied().collect();
+                let peak = ch.iter().fold(0.0f64, |p, v| p.max(v.abs()));
+                let rms = (ch.iter().map(|v| v * v).sum::<f64>() / frames as f64).sqrt();
+                let clipped = ch.iter().filter(|&&v| v <= -1.0 || v >= 32767.0 / 32768.0).count();
+                assert_eq!(got.peak_dbfs, amp_to_db(peak), "{channels} channels");
+                assert!((got.rms_dbfs - amp_to_db(rms)).abs() < 1e-12, "{channels} channels");
+                assert_eq!(got.clipped, clipped as u64, "{channels} channels");
+            }
+        }
     }
 
     #[test]

@@ -36,6 +36,8 @@ pub struct WavWriter {
     spec: WavSpec,
     codec: Codec,
     dither: Option<TpdfDither>,
+    /// The dither values of the block being encoded.
+    dither_values: Vec<f64>,
     fact_at: Option<u64>,
     data_size_at: u64,
     header_bytes: u64,
@@ -88,6 +90,7 @@ impl WavWriter {
             spec,
             codec,
             dither: None,
+            dither_values: Vec::new(),
             fact_at,
             data_size_at,
             header_bytes: header.len() as u64,
@@ -137,24 +140,29 @@ impl WavWriter {
         let start = self.pending.len();
         self.pending.resize(start + new_bytes, 0);
         let out = &mut self.pending[start..];
+        // The generator moves on only once the block is kept.
         let mut dither = self.dither.clone();
+        let dither_values = match &mut dither {
+            Some(d) => {
+                self.dither_values.resize(samples.len(), 0.0);
+                d.fill(&mut self.dither_values);
+                Some(&self.dither_values[..])
+            }
+            None => None,
+        };
         // One loop per codec (and per dither choice): no per-sample branching on format.
-        let overs = match (self.codec, dither.as_mut()) {
-            (Codec::U8, None) => encode::<1, 8>(samples, out, || 0.0),
-            (Codec::U8, Some(d)) => encode::<1, 8>(samples, out, || d.next_lsb()),
-            (Codec::I16, None) => encode::<2, 16>(samples, out, || 0.0),
-            (Codec::I16, Some(d)) => encode::<2, 16>(samples, out, || d.next_lsb()),
-            (Codec::I24, None) => encode::<3, 24>(samples, out, || 0.0),
-            (Codec::I24, Some(d)) => encode::<3, 24>(samples, out, || d.next_lsb()),
-            (Codec::I32, None) => encode::<4, 32>(samples, out, || 0.0),
-            (Codec::I32, Some(d)) => encode::<4, 32>(samples, out, || d.next_lsb()),
-            (Codec::F32, _) => {
+        let overs = match self.codec {
+            Codec::U8 => encode::<1, 8>(samples, out, dither_values),
+            Codec::I16 => encode::<2, 16>(samples, out, dither_values),
+            Codec::I24 => encode::<3, 24>(samples, out, dither_values),
+            Codec::I32 => encode::<4, 32>(samples, out, dither_values),
+            Codec::F32 => {
                 for (b, &x) in out.chunks_exact_mut(4).zip(samples) {
                     b.copy_from_slice(&(x as f32).to_le_bytes());
                 }
                 count_overs(samples)
             }
-            (Codec::F64, _) => {
+            Codec::F64 => {
                 for (b, &x) in out.chunks_exact_mut(8).zip(samples) {
                     b.copy_from_slice(&x.to_le_bytes());
                 }
@@ -231,14 +239,26 @@ fn count_overs(samples: &[f64]) -> u64 {
 
 /// Encodes `samples` as `BITS`-bit integer codes of `BYTES` little-endian bytes
 /// (8-bit: unsigned, offset 128): each is scaled by 2^(BITS−1), dithered by
-/// `dither()` LSB, rounded to the nearest code (ties to even) and clipped to the
+/// the `dither` values in LSB (none: 0), rounded to the nearest code (ties to even) and clipped to the
 /// extreme codes. Returns the number of clips, NaN samples included (their bytes are
 /// meaningless).
-#[inline(always)]
 fn encode<const BYTES: usize, const BITS: u32>(
     samples: &[f64],
     out: &mut [u8],
-    mut dither: impl FnMut() -> f64,
+    dither: Option<&[f64]>,
+) -> u64 {
+    match dither {
+        Some(d) => encode_dithered::<BYTES, BITS>(samples, out, d.iter().copied()),
+        None => encode_dithered::<BYTES, BITS>(samples, out, std::iter::repeat(0.0)),
+    }
+}
+
+/// [`encode`] with the dither values, in LSB, of `dither`.
+#[inline(always)]
+fn encode_dithered<const BYTES: usize, const BITS: u32>(
+    samples: &[f64],
+    out: &mut [u8],
+    dither: impl Iterator<Item = f64>,
 ) -> u64 {
     let scale = 1.0 / int_step(BITS as u16);
     // Rounded by the offset (see `offset_rounding`). Clipping the sum to the offset
@@ -246,8 +266,8 @@ fn encode<const BYTES: usize, const BITS: u32>(
     // lands beyond an extreme code and is clipped and counted.
     let (lo, hi) = (OFFSET - scale, OFFSET + scale - 1.0);
     let mut clipped = 0;
-    for (b, &x) in out.chunks_exact_mut(BYTES).zip(samples) {
-        let sum = x * scale + dither() + OFFSET;
+    for ((b, &x), d) in out.chunks_exact_mut(BYTES).zip(samples).zip(dither) {
+        let sum = x * scale + d + OFFSET;
         // A NaN sum stays NaN through the clamp and differs from itself: a clip.
         let c = sum.clamp(lo, hi);
         clipped += u64::from(c != sum);

@@ -59,9 +59,9 @@ impl SampleScale {
         // Rounded by the offset (see `offset_rounding`): no libm call and no saturating
         // cast, so loops over blocks vectorise.
         let (lo, hi) = (f64::from(self.min()), f64::from(self.max()));
-        let v = (x * self.full_scale).clamp(lo, hi);
-        // NaN passes the clamp; it maps to 0.
-        let v = if v.is_nan() { 0.0 } else { v };
+        // NaN maps to 0. Not `clamp`, whose check of its bounds stays in the loop.
+        let v = x * self.full_scale;
+        let v = if v.is_nan() { 0.0 } else { v.max(lo).min(hi) };
         offset_rounding::integer_of(v + offset_rounding::OFFSET) as i32
     }
 

@@ -18,7 +18,7 @@
 mod convert;
 mod fixed;
 mod float;
-mod isa;
+
 mod runner;
 
 pub use convert::SampleScale;
@@ -27,7 +27,7 @@ pub use float::{FloatEngine, FloatSample};
 pub use runner::Runner;
 
 use crate::error::{Error, Result};
-use isa::Isa;
+use crate::isa::Isa;
 
 /// One block interface shared by every engine.
 pub trait Engine {
