@@ -3,13 +3,14 @@
 use proptest::prelude::*;
 use serde_json::Value;
 use std::f64::consts::PI;
+use tonewright::pipeline::Realized;
 use tonewright::quantize::{
     analyze, default_band, find_limit_cycle, quantize, rounding_noise, FixedCascade, FixedFormat,
     Overflow, Rounding, Structure, Verdict,
 };
 use tonewright::sections::norms::{l1_norm, l2_norm};
 use tonewright::sections::{Cascade, Sos};
-use tonewright::simulate::{Engine, FixedEngine, FloatEngine, SampleScale};
+use tonewright::simulate::{Engine, FixedEngine, FloatEngine, Runner, SampleScale};
 
 #[path = "common/engines.rs"]
 mod reference;
@@ -495,6 +496,31 @@ fn fixed_engine_in_blocks(
     (y, e.overflows())
 }
 
+/// The [`Runner`]'s output (as integers) and overflow count for `x` as fractions of
+/// full scale, in blocks of `frames` frames, alternating its in-place and
+/// out-of-place entries.
+fn runner_in_blocks(
+    fixed: &FixedCascade,
+    structure: Structure,
+    channels: usize,
+    x: &[i32],
+    frames: usize,
+) -> (Vec<i32>, u64) {
+    let scale = SampleScale::new(fixed.format.data_bits).unwrap();
+    let mut runner = Runner::new(&Realized::Fixed(fixed.clone()), structure, channels).unwrap();
+    let mut y: Vec<f64> = x.iter().map(|&v| scale.to_f64(v)).collect();
+    let mut out = Vec::new();
+    for (i, block) in y.chunks_mut(frames * channels).enumerate() {
+        if i % 2 == 0 {
+            runner.process(block).unwrap();
+        } else {
+            runner.process_from(block, &mut out).unwrap();
+            block.copy_from_slice(&out);
+        }
+    }
+    (y.iter().map(|&v| scale.to_int(v)).collect(), runner.overflows())
+}
+
 proptest! {
     #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
 
@@ -527,6 +553,10 @@ proptest! {
                 prop_assert_eq!(&got, &want, "{} frames per block, {} build", frames, build);
                 prop_assert_eq!(overflows, want_overflows, "{} frames, {} build", frames, build);
             }
+            // The runner over f64 frames: one engine per channel, run side by side.
+            let (got, overflows) = runner_in_blocks(&fixed, structure, channels, &x, frames);
+            prop_assert_eq!(&got, &want, "runner, {} frames per block", frames);
+            prop_assert_eq!(overflows, want_overflows, "runner, {} frames per block", frames);
         }
     }
 
