@@ -4,14 +4,14 @@
 mod common;
 
 use common::{cli, names_in, repo, scratch};
-use tonewright::apply::{apply_file, ApplyOptions, Outputs};
+use tonewright::apply::{apply_file, ApplyOptions, Outputs, BLOCK_FRAMES};
 use tonewright::audio::signal::{mix_hum, white_noise, Mains, SignalSpec};
 use tonewright::audio::{SampleFormat, WavReader, WavSpec, WavWriter};
 use tonewright::design;
 use tonewright::pipeline::{port, realize};
-use tonewright::quantize::NumberFormat;
+use tonewright::quantize::{NumberFormat, Structure};
 use tonewright::report::inspect::measured;
-use tonewright::simulate::{Engine, FixedEngine, SampleScale};
+use tonewright::simulate::{Engine, FixedEngine, Runner, SampleScale};
 
 fn write_wav(path: &std::path::Path, spec: WavSpec, samples: &[f64]) {
     let mut w = WavWriter::create(path, spec, &[]).unwrap();
@@ -153,6 +153,68 @@ fn a_q15_run_written_to_16_bits_is_exactly_the_fixed_engine_output() {
     FixedEngine::new(&fixed, 2).unwrap().process(&mut ints).unwrap();
     let got: Vec<i32> = written.iter().map(|&s| scale.to_int(s)).collect();
     assert_eq!(got, ints);
+}
+
+#[test]
+fn streamed_outputs_equal_one_pass_of_the_engines_over_the_whole_file() {
+    // 2.3 blocks of stereo: the block loop runs, meters and writes three blocks in
+    // flight, the last one short. Each output must equal the engines run over the whole
+    // file at once (f32 outputs: no dither).
+    let dir = scratch("recordings", "streamed");
+    let input = dir.join("noise.wav");
+    let frames = BLOCK_FRAMES * 23 / 10;
+    let spec = SignalSpec {
+        rate: 48000,
+        channels: 2,
+        seconds: frames as f64 / 48000.0,
+        level_dbfs: -10.0,
+    };
+    let x = white_noise(&spec, 11).unwrap();
+    write_wav(
+        &input,
+        WavSpec { channels: 2, rate: 48000, sample: SampleFormat::Int { bits: 16 } },
+        &x,
+    );
+    let d = design::load(&repo("audio-demos/lp-hp-bandpass.toml")).unwrap();
+    let outputs = Outputs {
+        main: dir.join("q.wav"),
+        float: Some(dir.join("f.wav")),
+        residual: Some(dir.join("r.wav")),
+        residual_gain_db: 40.0,
+    };
+    let opts = ApplyOptions {
+        number: d.target.number,
+        bits: Some(SampleFormat::Float { bits: 32 }),
+        ..options(d.target.number)
+    };
+    let report = apply_file(&d, &input, &outputs, &opts, &|_| {}).unwrap();
+    assert_eq!(report.frames as usize, frames);
+
+    let (_, samples) = read_wav(&input);
+    let p = port(d.clone(), &[], 48000.0).unwrap();
+    let mut fixed = Runner::new(
+        &realize(&p.cascade, d.target.number, d.target.structure).unwrap(),
+        d.target.structure,
+        2,
+    )
+    .unwrap();
+    let mut float = Runner::new(
+        &realize(&p.cascade, NumberFormat::F64, Structure::Df2t).unwrap(),
+        Structure::Df2t,
+        2,
+    )
+    .unwrap();
+    let (mut want_fixed, mut want_float) = (samples.clone(), samples);
+    fixed.process(&mut want_fixed).unwrap();
+    float.process(&mut want_float).unwrap();
+    let gain = 10f64.powf(40.0 / 20.0);
+    let want_residual: Vec<f64> =
+        want_fixed.iter().zip(&want_float).map(|(q, f)| (q - f) * gain).collect();
+    for (file, want) in [("q.wav", want_fixed), ("f.wav", want_float), ("r.wav", want_residual)] {
+        let (_, got) = read_wav(&dir.join(file));
+        let want: Vec<f64> = want.iter().map(|&v| f64::from(v as f32)).collect();
+        assert!(got == want, "{file} differs from one pass over the whole file");
+    }
 }
 
 #[test]

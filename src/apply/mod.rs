@@ -14,10 +14,12 @@
 //! 2. G. Goertzel, "An algorithm for the evaluation of finite trigonometric series",
 //!    American Mathematical Monthly 65(1), 1958 (the rejection measurement).
 
+mod blocks;
 mod rejection;
 mod report;
 mod run;
 
+pub use blocks::BLOCK_FRAMES;
 pub use rejection::{stop_frequency, StopBand};
 pub use report::{FileReport, Rejection};
-pub use run::{apply_file, check_batch, ApplyOptions, Outputs, BLOCK_FRAMES};
+pub use run::{apply_file, check_batch, ApplyOptions, Outputs};

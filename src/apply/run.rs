@@ -1,5 +1,6 @@
 //! One file through the engines, streaming.
 
+use super::blocks::{self, Stages};
 use super::rejection::stop_frequency;
 use super::report::{FileReport, Rejection};
 use crate::audio::metrics::{amp_to_db, LevelMeter, ToneMeter};
@@ -14,11 +15,6 @@ use crate::sections::norms::linf_norm;
 use crate::simulate::Runner;
 use std::path::{Path, PathBuf};
 use std::time::Instant;
-
-/// Frames per block: large enough to amortise the hand-over between the two cores
-/// (8192 spent a tenth of the time switching threads), small enough for the second-level
-/// cache (512 KiB of stereo f64).
-pub const BLOCK_FRAMES: usize = 32768;
 
 /// How to run a design over a file.
 #[derive(Debug, Clone)]
@@ -180,73 +176,33 @@ pub fn apply_file(
     let mut tone_out = tone_in.clone();
     let mut levels_in = LevelMeter::new(spec.channels, spec.sample);
     let mut levels_out = LevelMeter::new(spec.channels, out_spec.sample);
-    let (mut signal_power, mut error_power) = (0.0f64, 0.0f64);
 
-    let mut block = Vec::with_capacity(BLOCK_FRAMES * channels);
-    let mut reference = Vec::with_capacity(BLOCK_FRAMES * channels);
-    let mut done = 0u64;
-    while reader.read_block(&mut block, BLOCK_FRAMES)? > 0 {
-        let skip = settle.saturating_sub(done) as usize;
-        let channel0 =
-            |b: &[f64]| b.iter().step_by(channels).skip(skip).copied().collect::<Vec<_>>();
-        let mut meter_input = |x: &[f64]| {
-            levels_in.add(x);
-            if let Some(t) = &mut tone_in {
-                t.add(channel0(x));
-            }
-        };
-        // The target's run, its meters and its file.
-        let mut target_side = |block: &mut Vec<f64>| -> Result<()> {
-            main.process(block)?;
-            levels_out.add(block);
-            if let Some(t) = &mut tone_out {
-                t.add(channel0(block));
-            }
-            main_out.write_block(block)
-        };
-        match &mut float {
-            Some(f) => {
-                // The target on one core; the input's meters, the f64 reference and its
-                // file on the other.
-                reference.clear();
-                reference.extend_from_slice(&block);
-                let (done_main, done_float) = rayon::join(
-                    || target_side(&mut block),
-                    || -> Result<f64> {
-                        meter_input(&reference);
-                        f.process(&mut reference)?;
-                        if let Some(w) = &mut float_out {
-                            w.write_block(&reference)?;
-                        }
-                        Ok(reference.iter().map(|x| x * x).sum::<f64>())
-                    },
-                );
-                done_main?;
-                signal_power += done_float?;
-                for (x, r) in block.iter_mut().zip(&reference) {
-                    let e = *x - r;
-                    error_power += e * e;
-                    *x = e * residual_gain;
-                }
-                if let Some(w) = &mut residual_out {
-                    w.write_block(&block)?;
-                }
-            }
-            None => {
-                meter_input(&block);
-                target_side(&mut block)?;
-            }
-        }
-        done += (block.len() / channels) as u64;
-        progress(done);
-    }
-    let stats = main_out.finish()?;
-    if let Some(w) = float_out {
-        w.finish()?;
-    }
-    if let Some(w) = residual_out {
-        w.finish()?;
-    }
+    let totals = blocks::run(
+        Stages {
+            reader: &mut reader,
+            channels,
+            target: &mut main,
+            reference: float.as_mut(),
+            levels_in: &mut levels_in,
+            levels_out: &mut levels_out,
+            tone_in: tone_in.as_mut(),
+            tone_out: tone_out.as_mut(),
+            settle,
+            target_out: &mut main_out,
+            reference_out: float_out.as_mut(),
+            residual_out: residual_out.as_mut(),
+            residual_gain,
+        },
+        progress,
+    )?;
+    // Each output is synced to disk before it is renamed: the three wait side by side.
+    let (main_done, (float_done, residual_done)) = rayon::join(
+        || main_out.finish(),
+        || rayon::join(|| float_out.map(WavWriter::finish), || residual_out.map(WavWriter::finish)),
+    );
+    let stats = main_done?;
+    float_done.transpose()?;
+    residual_done.transpose()?;
     if stats.overs > 0 {
         warnings.push(format!("{} output samples clipped at full scale", stats.overs));
     }
@@ -272,12 +228,12 @@ pub fn apply_file(
         file_rate: spec.rate,
         design_rate: rate,
         target: format!("{} {}", number_name(opts.number), structure),
-        frames: done,
+        frames: totals.frames,
         input_levels: levels_in.levels(),
         output_levels: levels_out.levels(),
         clipped: stats.overs,
         overflows: main.overflows(),
-        snr_vs_float_db: compare.then(|| 10.0 * (signal_power / error_power).log10()),
+        snr_vs_float_db: compare.then(|| 10.0 * (totals.signal_power / totals.error_power).log10()),
         rejection,
         seconds,
         realtime_factor: audio_seconds / seconds.max(1e-9),
