@@ -130,6 +130,10 @@ struct Channel<'a> {
 /// Scratch values per engine: two passes of the wavefront.
 const SCRATCH: usize = 4096;
 
+/// Frames of all channels processed before moving on (8 KiB of stereo q15 data, in
+/// i32): two passes of the wavefront.
+const STRETCH: usize = 4096;
+
 /// Frames per block.
 const BLOCK: usize = 64;
 
@@ -632,16 +636,20 @@ impl Engine for FixedEngine {
 
     fn process(&mut self, frames: &mut [i32]) -> Result<()> {
         check_frames(frames.len(), self.channels)?;
-        let ns = self.sections.len();
-        for ch in 0..self.channels {
-            let state = &mut self.state[ch * ns..(ch + 1) * ns];
-            self.overflows += (self.kernel)(
-                &self.params,
-                &self.sections,
-                state,
-                Channel { samples: frames, ch, n: self.channels },
-                &mut self.scratch,
-            );
+        let (ns, n) = (self.sections.len(), self.channels);
+        // Every channel of a stretch while it is in the first-level cache, rather than
+        // each channel through the whole buffer.
+        for stretch in frames.chunks_mut(STRETCH * n) {
+            for ch in 0..n {
+                let state = &mut self.state[ch * ns..(ch + 1) * ns];
+                self.overflows += (self.kernel)(
+                    &self.params,
+                    &self.sections,
+                    state,
+                    Channel { samples: stretch, ch, n },
+                    &mut self.scratch,
+                );
+            }
         }
         Ok(())
     }
