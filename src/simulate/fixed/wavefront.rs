@@ -13,11 +13,11 @@
 
 use super::{blocks, through, Channel, Params, SectionCoefs};
 use std::arch::x86_64::{
-    __m256i, _mm256_add_epi64, _mm256_and_si256, _mm256_blend_epi32, _mm256_blendv_epi8,
-    _mm256_castsi256_pd, _mm256_cmpgt_epi64, _mm256_extract_epi64, _mm256_loadu_si256,
-    _mm256_movemask_pd, _mm256_mul_epi32, _mm256_or_si256, _mm256_permute4x64_epi64,
-    _mm256_set1_epi64x, _mm256_setzero_si256, _mm256_sllv_epi64, _mm256_srlv_epi64,
-    _mm256_storeu_si256, _mm256_sub_epi64, _mm256_xor_si256,
+    __m256i, _mm256_add_epi64, _mm256_alignr_epi64, _mm256_and_si256, _mm256_blend_epi32,
+    _mm256_blendv_epi8, _mm256_castsi256_pd, _mm256_cmpgt_epi64, _mm256_extract_epi64,
+    _mm256_loadu_si256, _mm256_movemask_pd, _mm256_mul_epi32, _mm256_or_si256,
+    _mm256_permute4x64_epi64, _mm256_set1_epi64x, _mm256_setzero_si256, _mm256_sllv_epi64,
+    _mm256_srav_epi64, _mm256_srlv_epi64, _mm256_storeu_si256, _mm256_sub_epi64, _mm256_xor_si256,
 };
 
 /// Frames per pass: a marked wave redoes one pass; the 2 (lanes − 1) masked steps that
@@ -49,11 +49,12 @@ pub(super) fn run<
     io: Channel<'_>,
     scratch: &mut [i64],
 ) -> u64 {
-    // SAFETY: this function has AVX2, all the body needs.
-    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch) }
+    // SAFETY: this function has AVX2, all the body needs without `X512`.
+    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE, false>(p, secs, state, io, scratch) }
 }
 
-/// The body of [`run`] and [`run_avx512`], inlined into each.
+/// The body of [`run`] and [`run_avx512`], inlined into each; `X512` when compiled
+/// with AVX-512F and VL.
 #[inline(always)]
 unsafe fn run_body<
     const SAT: bool,
@@ -61,6 +62,7 @@ unsafe fn run_body<
     const EF: u32,
     const DF2T: bool,
     const WIDE: bool,
+    const X512: bool,
 >(
     p: &Params,
     secs: &[SectionCoefs],
@@ -94,10 +96,10 @@ unsafe fn run_body<
                     std::array::from_fn(|i| state.get(i).copied().unwrap_or_default());
                 before.copy_from_slice(buf);
                 let done = match size {
-                    4 => wave::<1, false, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
-                    8 => wave::<2, false, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
-                    1..=3 => wave::<1, true, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
-                    _ => wave::<2, true, EVEN, EF, DF2T, WIDE>(p, secs, state, buf),
+                    4 => wave::<1, false, EVEN, EF, DF2T, WIDE, X512>(p, secs, state, buf),
+                    8 => wave::<2, false, EVEN, EF, DF2T, WIDE, X512>(p, secs, state, buf),
+                    1..=3 => wave::<1, true, EVEN, EF, DF2T, WIDE, X512>(p, secs, state, buf),
+                    _ => wave::<2, true, EVEN, EF, DF2T, WIDE, X512>(p, secs, state, buf),
                 };
                 if !done {
                     state.copy_from_slice(&saved[..size]);
@@ -111,7 +113,10 @@ unsafe fn run_body<
 }
 
 /// [`run`] compiled where AVX-512F and VL are available: the same 256-bit code, which
-/// then has 32 vector registers instead of 16 for the states and constants of a wave.
+/// then has 32 vector registers instead of 16 for the states and constants of a wave,
+/// and two shorter steps on the path from one lane to the next: an arithmetic 64-bit
+/// shift rounds (df1 nearest and floor add the rounding addend before the sample's own
+/// product), and one `valignq` moves the outputs on.
 #[target_feature(enable = "avx2,avx512f,avx512vl")]
 pub(super) fn run_avx512<
     const SAT: bool,
@@ -126,8 +131,8 @@ pub(super) fn run_avx512<
     io: Channel<'_>,
     scratch: &mut [i64],
 ) -> u64 {
-    // SAFETY: this function has AVX2, all the body needs.
-    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch) }
+    // SAFETY: this function has AVX2, AVX-512F and VL, all the body needs with `X512`.
+    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE, true>(p, secs, state, io, scratch) }
 }
 
 // Every `unsafe fn` below uses AVX2 instructions: it is safe to call only from code
@@ -148,11 +153,12 @@ struct Wave<const V: usize> {
     holding: Regs<V>,
     /// b0, b1, b2, a1, a2.
     c: [Regs<V>; 5],
-    /// r, 2^r − 1, the rounding addend plus the bias of [`Wave::round`], the half-even
-    /// threshold, the fast range.
+    /// r, 2^r − 1, the rounding addend (plus the bias of [`Wave::round`] unless
+    /// `X512`), the half-even threshold, the fast range (of the sum plus the addend
+    /// where [`Wave::halved`]).
     r: Regs<V>,
     mask: Regs<V>,
-    biased_half: Regs<V>,
+    addend: Regs<V>,
     even_thr: Regs<V>,
     fast_lo: Regs<V>,
     fast_hi: Regs<V>,
@@ -176,6 +182,7 @@ unsafe fn wave<
     const EF: u32,
     const DF2T: bool,
     const WIDE: bool,
+    const X512: bool,
 >(
     p: &Params,
     secs: &[SectionCoefs],
@@ -198,6 +205,8 @@ unsafe fn wave<
             load(&std::array::from_fn::<i64, 4, _>(|l| -i64::from(set(4 * v + l))))
         })
     };
+    let halve = Wave::<V>::halved::<EVEN, DF2T, X512>();
+    let addend = |k: usize| if halve { secs[k].half } else { 0 };
     let wave = Wave::<V> {
         pad,
         m,
@@ -206,11 +215,12 @@ unsafe fn wave<
         c: std::array::from_fn(|i| regs(&|k| secs[k].c[i])),
         r: regs(&|k| i64::from(secs[k].r)),
         mask: regs(&|k| secs[k].mask),
-        biased_half: regs(&|k| secs[k].half - secs[k].fast_lo),
+        addend: regs(&|k| secs[k].half - if X512 { 0 } else { secs[k].fast_lo }),
         even_thr: regs(&|k| secs[k].even_thr),
-        fast_lo: regs(&|k| secs[k].fast_lo),
-        // Within i64: (data_hi − 1)·2^r (see `SectionCoefs`).
-        fast_hi: regs(&|k| secs[k].fast_lo.wrapping_add(secs[k].fast_span as i64)),
+        // Within i64: data_lo·2^r and (data_hi − 1)·2^r, plus at most 2^(r−1) (see
+        // `SectionCoefs`).
+        fast_lo: regs(&|k| secs[k].fast_lo + addend(k)),
+        fast_hi: regs(&|k| secs[k].fast_lo.wrapping_add(secs[k].fast_span as i64) + addend(k)),
         acc_lo: _mm256_set1_epi64x(p.acc_lo),
         acc_hi: _mm256_set1_epi64x(p.acc_hi),
         unbias: _mm256_set1_epi64x(-p.data_lo),
@@ -220,13 +230,13 @@ unsafe fn wave<
     let mut bad = _mm256_setzero_si256();
     let body = lanes - 1..(m - 1).max(lanes - 1);
     for t in 0..body.start {
-        wave.step::<true, PASSING, EVEN, EF, DF2T, WIDE>(&mut s, &mut x, &mut bad, buf, t);
+        wave.step::<true, PASSING, EVEN, EF, DF2T, WIDE, X512>(&mut s, &mut x, &mut bad, buf, t);
     }
     for t in body.clone() {
-        wave.step::<false, PASSING, EVEN, EF, DF2T, WIDE>(&mut s, &mut x, &mut bad, buf, t);
+        wave.step::<false, PASSING, EVEN, EF, DF2T, WIDE, X512>(&mut s, &mut x, &mut bad, buf, t);
     }
     for t in body.end..m + lanes - 1 {
-        wave.step::<true, PASSING, EVEN, EF, DF2T, WIDE>(&mut s, &mut x, &mut bad, buf, t);
+        wave.step::<true, PASSING, EVEN, EF, DF2T, WIDE, X512>(&mut s, &mut x, &mut bad, buf, t);
     }
     if _mm256_movemask_pd(_mm256_castsi256_pd(bad)) != 0 {
         return false;
@@ -264,6 +274,7 @@ impl<const V: usize> Wave<V> {
         const EF: u32,
         const DF2T: bool,
         const WIDE: bool,
+        const X512: bool,
     >(
         &self,
         s: &mut States<V>,
@@ -292,7 +303,7 @@ impl<const V: usize> Wave<V> {
             if DF2T {
                 let acc = add::<WIDE>(mul(b0[v], xv), s[0][v], &mut marks);
                 marks = _mm256_or_si256(marks, outside(acc, self.fast_lo[v], self.fast_hi[v]));
-                y = self.round::<EVEN>(acc, v);
+                y = self.round::<EVEN, X512>(acc, v, false);
                 let n1 = add::<WIDE>(sub(mul(b1[v], xv), mul(a1[v], y)), s[1][v], &mut marks);
                 let n2 = sub(mul(b2[v], xv), mul(a2[v], y));
                 if !WIDE {
@@ -315,11 +326,17 @@ impl<const V: usize> Wave<V> {
                         sum = add::<WIDE>(sum, fb, &mut marks);
                     }
                 }
+                let halve = Self::halved::<EVEN, DF2T, X512>();
+                if halve {
+                    // The addend before the sample's product, off its path.
+                    sum = add::<WIDE>(sum, self.addend[v], &mut marks);
+                }
                 sum = add::<WIDE>(sum, mul(b0[v], xv), &mut marks);
                 marks = _mm256_or_si256(marks, outside(sum, self.fast_lo[v], self.fast_hi[v]));
-                y = self.round::<EVEN>(sum, v);
+                y = self.round::<EVEN, X512>(sum, v, halve);
                 let mut next = [xv, s[0][v], y, s[2][v], s[4][v], s[5][v]];
                 if EF > 0 {
+                    let sum = if halve { sub(sum, self.addend[v]) } else { sum };
                     next[4] = sub(sum, _mm256_sllv_epi64(y, self.r[v]));
                     next[5] = s[4][v];
                 }
@@ -328,37 +345,72 @@ impl<const V: usize> Wave<V> {
                 }
             }
             *bad = _mm256_or_si256(*bad, _mm256_and_si256(marks, counted));
-            let o = if PASSING { _mm256_blendv_epi8(y, xv, self.passing[v]) } else { y };
-            // [o0, o1, o2, o3] -> [o3, o0, o1, o2].
-            out[v] = _mm256_permute4x64_epi64::<0b10_01_00_11>(o);
+            out[v] = if PASSING { _mm256_blendv_epi8(y, xv, self.passing[v]) } else { y };
         }
         if !MASKED || t + 1 >= lanes {
-            buf[t + 1 - lanes] = _mm256_extract_epi64::<0>(out[V - 1]);
+            buf[t + 1 - lanes] = _mm256_extract_epi64::<3>(out[V - 1]);
         }
-        let next = if !MASKED || t + 1 < m { buf[t + 1] } else { 0 };
-        // Lane 0 (two 32-bit halves) from the previous register's last lane.
-        x[0] = _mm256_blend_epi32::<0b11>(out[0], _mm256_set1_epi64x(next));
+        let next = _mm256_set1_epi64x(if !MASKED || t + 1 < m { buf[t + 1] } else { 0 });
+        // Every lane takes the previous lane's output; lane 0 of a register the last lane
+        // of the one before, or the next input: [p3, o0, o1, o2].
+        let shift = |o: __m256i, p: __m256i| {
+            if X512 {
+                _mm256_alignr_epi64::<3>(o, p)
+            } else {
+                // [o0, o1, o2, o3] -> [o3, o0, o1, o2], then lane 0 (two 32-bit halves).
+                _mm256_blend_epi32::<0b11>(_mm256_permute4x64_epi64::<0b10_01_00_11>(o), p)
+            }
+        };
+        x[0] = shift(out[0], next);
         for v in 1..V {
-            x[v] = _mm256_blend_epi32::<0b11>(out[v], out[v - 1]);
+            x[v] = shift(
+                out[v],
+                if X512 {
+                    out[v - 1]
+                } else {
+                    _mm256_permute4x64_epi64::<0b10_01_00_11>(out[v - 1])
+                },
+            );
         }
     }
 
-    /// round_r of lane `v`'s sums. Where a sum lies in the fast range, adding the
-    /// bias −fast_lo = 2^(D−1+r) makes it non-negative (and keeps it below 2^63), so a
-    /// logical shift floors it; the bias comes off after the shift as 2^(D−1). Nearest
-    /// and floor add their addend first; even rounds the dropped bits apart. Lanes
-    /// outside the fast range get values nobody keeps.
+    /// Whether a df1 step adds the rounding addend before the sample's product and
+    /// rounds with an arithmetic shift (nearest and floor where AVX-512 has one).
     #[inline(always)]
-    unsafe fn round<const EVEN: bool>(&self, sum: __m256i, v: usize) -> __m256i {
-        let floor = |biased: __m256i| sub(_mm256_srlv_epi64(biased, self.r[v]), self.unbias);
-        if EVEN {
-            let q = floor(sub(sum, self.fast_lo[v]));
+    fn halved<const EVEN: bool, const DF2T: bool, const X512: bool>() -> bool {
+        X512 && !EVEN && !DF2T
+    }
+
+    /// round_r of lane `v`'s sums (which already hold the addend when `halved`).
+    /// With `X512` an arithmetic shift floors them. Without, where a sum lies in the
+    /// fast range, adding the bias −fast_lo = 2^(D−1+r) makes it non-negative (and
+    /// keeps it below 2^63), so a logical shift floors it; the bias comes off after the
+    /// shift as 2^(D−1). Nearest and floor add their addend first; even rounds the
+    /// dropped bits apart. Lanes outside the fast range get values nobody keeps.
+    #[inline(always)]
+    unsafe fn round<const EVEN: bool, const X512: bool>(
+        &self,
+        sum: __m256i,
+        v: usize,
+        halved: bool,
+    ) -> __m256i {
+        let floor = |biased: __m256i| {
+            if X512 {
+                _mm256_srav_epi64(biased, self.r[v])
+            } else {
+                sub(_mm256_srlv_epi64(biased, self.r[v]), self.unbias)
+            }
+        };
+        if halved {
+            floor(sum)
+        } else if EVEN {
+            let q = floor(if X512 { sum } else { sub(sum, self.fast_lo[v]) });
             let odd = _mm256_and_si256(q, _mm256_set1_epi64x(1));
             let dropped = _mm256_add_epi64(_mm256_and_si256(sum, self.mask[v]), odd);
             // The comparison is −1 where the quotient rounds up.
             sub(q, _mm256_cmpgt_epi64(dropped, self.even_thr[v]))
         } else {
-            floor(_mm256_add_epi64(sum, self.biased_half[v]))
+            floor(_mm256_add_epi64(sum, self.addend[v]))
         }
     }
 }
