@@ -3,6 +3,7 @@
 sections of benches/eight-sections.toml.
 
 - tonewright apply: q15 output plus the f64 run (--float-out), both written as 16-bit;
+- tonewright apply --compare: both engines, only the q15 output written;
 - tonewright apply of a one-section pass-through (gain 0 dB) in f64: reading and
   writing with (almost) no filtering, the baseline of the 1.5x target;
 - numpy + scipy.signal.sosfilt (float64): read with the wave module, filter the same
@@ -68,6 +69,10 @@ def main():
             subprocess.run([TOOL, "apply", DESIGN, src, "-o", out, "--float-out", flt],
                            check=True, capture_output=True)
 
+        def compare():
+            subprocess.run([TOOL, "apply", DESIGN, src, "-o", out, "--compare"],
+                           check=True, capture_output=True)
+
         def baseline():
             subprocess.run([TOOL, "apply", passthrough, src, "-o", out, "--number", "f64",
                             "--no-dither"], check=True, capture_output=True)
@@ -95,11 +100,14 @@ def main():
             subprocess.run([TOOL, "apply", DESIGN, src, second, "-o", folder],
                            check=True, capture_output=True)
 
-        t_tool, t_base, t_py = timed(tool), timed(baseline), timed(numpy_scipy)
+        t_tool, t_compare = timed(tool), timed(compare)
+        t_base, t_py = timed(baseline), timed(numpy_scipy)
         t_one, t_two = timed(one_file), timed(two_files)
     print(f"scipy {scipy.__version__}, numpy {np.__version__}, load {os.getloadavg()[0]:.2f}")
     print(f"tonewright apply, q15 + f64 outputs : {t_tool:7.2f} s")
-    print(f"tonewright apply, pass-through       : {t_base:7.2f} s  (ratio {t_tool / t_base:.2f}, target <= 1.5)")
+    print(f"tonewright apply --compare (q15 file): {t_compare:7.2f} s")
+    print(f"tonewright apply, pass-through       : {t_base:7.2f} s  (ratios {t_tool / t_base:.2f} and "
+          f"{t_compare / t_base:.2f}, target <= 1.5)")
     print(f"numpy + scipy.signal.sosfilt (f64)   : {t_py:7.2f} s  (tonewright / scipy {t_tool / t_py:.2f}, target < 0.5)")
     print(f"tonewright apply, q15 only, one file : {t_one:7.2f} s")
     print(f"tonewright apply, q15 only, two files: {t_two:7.2f} s  (throughput {2 * t_one / t_two:.2f}x one file, target close to 2)")
