@@ -14,7 +14,8 @@
 //! section still sees its samples in order, and each lane evaluates the plain loop's
 //! expression with separate multiplies and adds (no FMA), so the output is bit for bit
 //! the other kernels'. Written with AVX2 intrinsics ([`registers`]): the compiler does
-//! not find the move to the next lane (one permute and one blend) on its own.
+//! not find the move to the next lane (one permute and one blend, or one `valignq` in
+//! AVX-512 registers) on its own.
 
 mod registers;
 
@@ -249,21 +250,21 @@ impl<R: Register, const V: usize> Wave<R, V> {
                     s1[v] = n1;
                     s2[v] = n2;
                 }
-                let o = if PASSING { y.select(x[v], self.passing[v]) } else { y };
-                out[v] = o.rotate();
+                out[v] = if PASSING { y.select(x[v], self.passing[v]) } else { y };
             }
-            // Lane 0 of each rotated register holds the previous register's last lane.
             if !MASKED || t + 1 >= p {
-                lanes.frames[lanes.at(t + 1 - p, ch)] = out[V - 1].first();
+                lanes.frames[lanes.at(t + 1 - p, ch)] = out[V - 1].last();
             }
             let next = if !MASKED || t + 1 < m {
                 lanes.frames[lanes.at(t + 1, ch)]
             } else {
                 R::Lane::default()
             };
-            x[0] = out[0].with_first(R::splat(next));
+            // Each lane takes the previous lane's output; lane 0 of a register the last
+            // lane of the one before, or the next input.
+            x[0] = out[0].shift_in(R::splat(next));
             for v in 1..V {
-                x[v] = out[v].with_first(out[v - 1]);
+                x[v] = out[v].shift_in(out[v - 1]);
             }
         }
     }

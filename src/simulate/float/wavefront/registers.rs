@@ -12,9 +12,9 @@ use std::arch::x86_64::{
     _mm256_cvtss_f32, _mm256_loadu_pd, _mm256_loadu_ps, _mm256_loadu_si256, _mm256_mul_pd,
     _mm256_mul_ps, _mm256_permute4x64_pd, _mm256_permutevar8x32_ps, _mm256_set1_pd, _mm256_set1_ps,
     _mm256_setr_epi32, _mm256_storeu_pd, _mm256_storeu_ps, _mm256_sub_pd, _mm256_sub_ps,
-    _mm512_add_pd, _mm512_castpd_si512, _mm512_castsi512_pd, _mm512_cvtsd_f64, _mm512_loadu_pd,
-    _mm512_loadu_si512, _mm512_mask_blend_pd, _mm512_movepi64_mask, _mm512_mul_pd,
-    _mm512_permutexvar_pd, _mm512_set1_pd, _mm512_setr_epi64, _mm512_storeu_pd, _mm512_sub_pd,
+    _mm512_add_pd, _mm512_alignr_epi64, _mm512_castpd_si512, _mm512_castsi512_pd, _mm512_cvtsd_f64,
+    _mm512_loadu_pd, _mm512_loadu_si512, _mm512_mask_blend_pd, _mm512_movepi64_mask, _mm512_mul_pd,
+    _mm512_set1_pd, _mm512_storeu_pd, _mm512_sub_pd,
 };
 
 /// A register of `LANES` float lanes. Arithmetic rounds each operation on its own,
@@ -37,12 +37,10 @@ pub(super) trait Register: Copy {
     fn mul(self, b: Self) -> Self;
     /// `b` in the lanes where `mask` is set, `self` elsewhere.
     fn select(self, b: Self, mask: Self) -> Self;
-    /// Lanes moved up by one; the last lane comes round to lane 0.
-    fn rotate(self) -> Self;
-    /// Lane 0 from `b`, the others from `self`.
-    fn with_first(self, b: Self) -> Self;
-    /// Lane 0.
-    fn first(self) -> Self::Lane;
+    /// Lanes moved up by one, the last lane of `b` into lane 0.
+    fn shift_in(self, b: Self) -> Self;
+    /// The last lane.
+    fn last(self) -> Self::Lane;
 }
 
 // SAFETY (every block below): the intrinsics need AVX2 (or less) for the 256-bit
@@ -87,16 +85,14 @@ impl Register for __m256d {
         unsafe { _mm256_blendv_pd(self, b, mask) }
     }
     #[inline(always)]
-    fn rotate(self) -> Self {
-        unsafe { _mm256_permute4x64_pd::<0b10_01_00_11>(self) }
+    fn shift_in(self, b: Self) -> Self {
+        // Both rotated ([l3, l0, l1, l2]), lane 0 from b's.
+        let rotate = |r| unsafe { _mm256_permute4x64_pd::<0b10_01_00_11>(r) };
+        unsafe { _mm256_blend_pd::<1>(rotate(self), rotate(b)) }
     }
     #[inline(always)]
-    fn with_first(self, b: Self) -> Self {
-        unsafe { _mm256_blend_pd::<1>(self, b) }
-    }
-    #[inline(always)]
-    fn first(self) -> f64 {
-        unsafe { _mm256_cvtsd_f64(self) }
+    fn last(self) -> f64 {
+        unsafe { _mm256_cvtsd_f64(_mm256_permute4x64_pd::<0b10_01_00_11>(self)) }
     }
 }
 
@@ -137,17 +133,19 @@ impl Register for __m256 {
         unsafe { _mm256_blendv_ps(self, b, mask) }
     }
     #[inline(always)]
-    fn rotate(self) -> Self {
-        unsafe { _mm256_permutevar8x32_ps(self, _mm256_setr_epi32(7, 0, 1, 2, 3, 4, 5, 6)) }
+    fn shift_in(self, b: Self) -> Self {
+        unsafe { _mm256_blend_ps::<1>(rotate_ps(self), rotate_ps(b)) }
     }
     #[inline(always)]
-    fn with_first(self, b: Self) -> Self {
-        unsafe { _mm256_blend_ps::<1>(self, b) }
+    fn last(self) -> f32 {
+        unsafe { _mm256_cvtss_f32(rotate_ps(self)) }
     }
-    #[inline(always)]
-    fn first(self) -> f32 {
-        unsafe { _mm256_cvtss_f32(self) }
-    }
+}
+
+/// [l7, l0, …, l6] of an f32 register.
+#[inline(always)]
+unsafe fn rotate_ps(r: __m256) -> __m256 {
+    unsafe { _mm256_permutevar8x32_ps(r, _mm256_setr_epi32(7, 0, 1, 2, 3, 4, 5, 6)) }
 }
 
 impl Register for __m512d {
@@ -187,15 +185,17 @@ impl Register for __m512d {
         unsafe { _mm512_mask_blend_pd(_mm512_movepi64_mask(_mm512_castpd_si512(mask)), self, b) }
     }
     #[inline(always)]
-    fn rotate(self) -> Self {
-        unsafe { _mm512_permutexvar_pd(_mm512_setr_epi64(7, 0, 1, 2, 3, 4, 5, 6), self) }
+    fn shift_in(self, b: Self) -> Self {
+        // One valignq: lanes 7 of b, then 0 to 6 of self.
+        unsafe {
+            _mm512_castsi512_pd(_mm512_alignr_epi64::<7>(
+                _mm512_castpd_si512(self),
+                _mm512_castpd_si512(b),
+            ))
+        }
     }
     #[inline(always)]
-    fn with_first(self, b: Self) -> Self {
-        unsafe { _mm512_mask_blend_pd(1, self, b) }
-    }
-    #[inline(always)]
-    fn first(self) -> f64 {
-        unsafe { _mm512_cvtsd_f64(self) }
+    fn last(self) -> f64 {
+        unsafe { _mm512_cvtsd_f64(self.shift_in(self)) }
     }
 }
