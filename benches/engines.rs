@@ -1,8 +1,10 @@
 //! Throughput of the block engines beside reference engines, one run, same input:
 //! 8 sections, 1, 2 and 8 interleaved channels, 2^21 samples per iteration, reported
-//! as items/s where one item is one section-sample.
+//! as elements/s where one element is one section-sample. Ids are
+//! `engines/<name>/<channels>`.
 //!
-//! Run: `cargo bench --bench engines` (see benches/README.md for the scipy figures).
+//! Run: `cargo bench --bench engines`, then `python3 benches/medians.py engines` for
+//! the medians (see benches/README.md for the scipy figures).
 //! - `tonewright_*`: [`FloatEngine`] (df2t) and [`FixedEngine`] (q15 and q31, df1).
 //! - `biquad_*`: the `biquad` crate's `DirectForm2Transposed`, one filter per section
 //!   and channel, frames in order.
@@ -10,9 +12,13 @@
 //!   original kernels; the fixed one evaluates the documented arithmetic in i128).
 
 use biquad::{Biquad, Coefficients, DirectForm2Transposed};
-use divan::counter::ItemsCount;
-use divan::Bencher;
+use criterion::measurement::WallTime;
+use criterion::{
+    criterion_group, criterion_main, BatchSize, BenchmarkGroup, BenchmarkId, Criterion,
+    SamplingMode, Throughput,
+};
 use std::f64::consts::PI;
+use std::time::Duration;
 use tonewright::quantize::{quantize, FixedCascade, FixedFormat, Structure};
 use tonewright::sections::{Cascade, Sos};
 use tonewright::simulate::{Engine, FixedEngine, FloatEngine, FloatSample, SampleScale};
@@ -24,8 +30,33 @@ const SECTIONS: usize = 8;
 const SAMPLES: usize = 1 << 21;
 const CHANNELS: [usize; 3] = [1, 2, 8];
 
-fn main() {
-    divan::main();
+type Group<'a> = BenchmarkGroup<'a, WallTime>;
+
+criterion_group!(benches, engines);
+criterion_main!(benches);
+
+/// Every engine on every channel count, 15 samples each. An iteration takes 5 to 40 ms,
+/// so a sample averages a few iterations.
+fn engines(c: &mut Criterion) {
+    let mut g = c.benchmark_group("engines");
+    g.sampling_mode(SamplingMode::Flat)
+        .sample_size(15)
+        .warm_up_time(Duration::from_secs(1))
+        .measurement_time(Duration::from_secs(2));
+    for channels in CHANNELS {
+        float_engine::<f64>(&mut g, "tonewright_f64_df2t", channels);
+        float_engine::<f32>(&mut g, "tonewright_f32_df2t", channels);
+        fixed_engine(&mut g, "tonewright_q15_df1_acc32", FixedFormat::q15(), channels);
+        fixed_engine(&mut g, "tonewright_q31_df1_acc64", FixedFormat::q31(), channels);
+        biquad(&mut g, "biquad_df2t_f64", channels, DirectForm2Transposed::<f64>::new);
+        biquad(&mut g, "biquad_df2t_f32", channels, DirectForm2Transposed::<f32>::new);
+        plain_float(&mut g, "plain_f64_df2t", channels);
+    }
+    // The literal i128 arithmetic takes about 250 ms an iteration: mono only, and
+    // criterion's fewest samples, of two or three iterations each.
+    g.sample_size(10).measurement_time(Duration::from_secs(6));
+    plain_fixed(&mut g, "plain_q15_df1_acc32", FixedFormat::q15(), 1);
+    g.finish();
 }
 
 /// Eight resonant sections from 60 Hz to 12 kHz, each scaled to unity peak gain.
@@ -54,17 +85,24 @@ fn input<T: FloatSample>(channels: usize) -> Vec<T> {
         .collect()
 }
 
-/// Times `f` filtering a fresh copy of `x` in place.
-fn time<S: Clone + Send + Sync>(bencher: Bencher, x: Vec<S>, mut f: impl FnMut(&mut Vec<S>)) {
-    bencher
-        .counter(ItemsCount::new(x.len() * SECTIONS))
-        .with_inputs(|| x.clone())
-        .bench_local_refs(|buf| f(buf));
+/// Times `f` filtering a fresh copy of `x` in place as `name`/`channels`; making the
+/// copy is not timed.
+fn time<S: Clone>(
+    g: &mut Group,
+    name: &str,
+    channels: usize,
+    x: Vec<S>,
+    mut f: impl FnMut(&mut Vec<S>),
+) {
+    g.throughput(Throughput::Elements((x.len() * SECTIONS) as u64));
+    g.bench_function(BenchmarkId::new(name, channels), |b| {
+        b.iter_batched_ref(|| x.clone(), |buf| f(buf), BatchSize::PerIteration)
+    });
 }
 
-fn float_engine<T: FloatSample + Send + Sync>(bencher: Bencher, channels: usize) {
+fn float_engine<T: FloatSample>(g: &mut Group, name: &str, channels: usize) {
     let mut e = FloatEngine::<T>::new(&cascade(), Structure::Df2t, channels).expect("channels");
-    time(bencher, input::<T>(channels), |buf| e.process(buf).expect("whole frames"));
+    time(g, name, channels, input::<T>(channels), |buf| e.process(buf).expect("whole frames"));
 }
 
 fn fixed(format: FixedFormat) -> FixedCascade {
@@ -76,13 +114,30 @@ fn fixed_input(format: FixedFormat, channels: usize) -> Vec<i32> {
     input::<f64>(channels).iter().map(|&v| scale.to_int(v)).collect()
 }
 
-fn fixed_engine(bencher: Bencher, format: FixedFormat, channels: usize) {
+fn fixed_engine(g: &mut Group, name: &str, format: FixedFormat, channels: usize) {
     let mut e = FixedEngine::new(&fixed(format), channels).expect("valid cascade");
-    time(bencher, fixed_input(format, channels), |buf| e.process(buf).expect("whole frames"));
+    time(g, name, channels, fixed_input(format, channels), |buf| {
+        e.process(buf).expect("whole frames")
+    });
 }
 
-fn biquad<T: FloatSample + Send + Sync>(
-    bencher: Bencher,
+fn plain_float(g: &mut Group, name: &str, channels: usize) {
+    let c = cascade();
+    time(g, name, channels, input::<f64>(channels), |buf| {
+        reference::float_cascade(&c, Structure::Df2t, channels, buf)
+    });
+}
+
+fn plain_fixed(g: &mut Group, name: &str, format: FixedFormat, channels: usize) {
+    let f = fixed(format);
+    time(g, name, channels, fixed_input(format, channels), |buf| {
+        reference::fixed_cascade(&f, channels, buf);
+    });
+}
+
+fn biquad<T: FloatSample>(
+    g: &mut Group,
+    name: &str,
     channels: usize,
     new: fn(Coefficients<T>) -> DirectForm2Transposed<T>,
 ) where
@@ -98,57 +153,11 @@ fn biquad<T: FloatSample + Send + Sync>(
     let c = cascade();
     let mut filters: Vec<Vec<DirectForm2Transposed<T>>> =
         (0..channels).map(|_| c.sections.iter().map(|s| new(coefficients(s))).collect()).collect();
-    time(bencher, input::<T>(channels), |buf| {
+    time(g, name, channels, input::<T>(channels), |buf| {
         for frame in buf.chunks_exact_mut(channels) {
             for (v, chain) in frame.iter_mut().zip(filters.iter_mut()) {
                 *v = chain.iter_mut().fold(*v, |x, f| f.run(x));
             }
         }
-    });
-}
-
-#[divan::bench(args = CHANNELS, sample_count = 15, sample_size = 1)]
-fn tonewright_f64_df2t(bencher: Bencher, channels: usize) {
-    float_engine::<f64>(bencher, channels);
-}
-
-#[divan::bench(args = CHANNELS, sample_count = 15, sample_size = 1)]
-fn tonewright_f32_df2t(bencher: Bencher, channels: usize) {
-    float_engine::<f32>(bencher, channels);
-}
-
-#[divan::bench(args = CHANNELS, sample_count = 15, sample_size = 1)]
-fn tonewright_q15_df1_acc32(bencher: Bencher, channels: usize) {
-    fixed_engine(bencher, FixedFormat::q15(), channels);
-}
-
-#[divan::bench(args = CHANNELS, sample_count = 15, sample_size = 1)]
-fn tonewright_q31_df1_acc64(bencher: Bencher, channels: usize) {
-    fixed_engine(bencher, FixedFormat::q31(), channels);
-}
-
-#[divan::bench(args = CHANNELS, sample_count = 15, sample_size = 1)]
-fn biquad_df2t_f64(bencher: Bencher, channels: usize) {
-    biquad(bencher, channels, DirectForm2Transposed::<f64>::new);
-}
-
-#[divan::bench(args = CHANNELS, sample_count = 15, sample_size = 1)]
-fn biquad_df2t_f32(bencher: Bencher, channels: usize) {
-    biquad(bencher, channels, DirectForm2Transposed::<f32>::new);
-}
-
-#[divan::bench(args = CHANNELS, sample_count = 15, sample_size = 1)]
-fn plain_f64_df2t(bencher: Bencher, channels: usize) {
-    let c = cascade();
-    time(bencher, input::<f64>(channels), |buf| {
-        reference::float_cascade(&c, Structure::Df2t, channels, buf)
-    });
-}
-
-#[divan::bench(args = [1], sample_count = 5, sample_size = 1)]
-fn plain_q15_df1_acc32(bencher: Bencher, channels: usize) {
-    let (format, f) = (FixedFormat::q15(), fixed(FixedFormat::q15()));
-    time(bencher, fixed_input(format, channels), |buf| {
-        reference::fixed_cascade(&f, channels, buf);
     });
 }

@@ -1,6 +1,6 @@
 //! WAV throughput beside hound, one run: 16-bit stereo, 60 s at 48 kHz (5.76 M
-//! samples) per iteration, in items/s where one item is one sample. Files go to the
-//! system temporary folder, and every write starts a new file there.
+//! samples) per iteration, in elements/s where one element is one sample. Files go
+//! to the system temporary folder, and every write starts a new file there.
 //!
 //! - Reading: our bulk decoder against hound's per-sample iterator.
 //! - Writing, the sample path: from creating the file until the last block has gone
@@ -13,19 +13,43 @@
 //!   buffered rest, header sizes, fsync and rename onto the target. hound has no
 //!   durable commit, so this row has no hound counterpart.
 //!
-//! Run: `uptime; cargo bench --bench wav`.
+//! Ids are `wav/<row>`. Run: `uptime; cargo bench --bench wav`, then
+//! `python3 benches/medians.py wav`.
 
-use divan::counter::ItemsCount;
-use divan::Bencher;
+use criterion::measurement::WallTime;
+use criterion::{
+    criterion_group, criterion_main, BatchSize, BenchmarkGroup, Criterion, SamplingMode, Throughput,
+};
 use std::path::{Path, PathBuf};
+use std::time::Duration;
 use tonewright::apply::BLOCK_FRAMES;
 use tonewright::audio::dither::SplitMix64;
 use tonewright::audio::{SampleFormat, WavReader, WavSpec, WavWriter};
 
+type Group<'a> = BenchmarkGroup<'a, WallTime>;
+
 const SAMPLES: usize = 2 * 48_000 * 60;
 
-fn main() {
-    divan::main();
+criterion_group!(benches, wav);
+criterion_main!(benches);
+
+/// Every row, 20 samples each. An iteration takes 5 to 100 ms, so a sample averages a
+/// few iterations. The write rows run one iteration per batch: each writer is dropped,
+/// untimed, before the next one creates its file.
+fn wav(c: &mut Criterion) {
+    let mut g = c.benchmark_group("wav");
+    g.sampling_mode(SamplingMode::Flat)
+        .sample_size(20)
+        .warm_up_time(Duration::from_secs(1))
+        .measurement_time(Duration::from_secs(3))
+        .throughput(Throughput::Elements(SAMPLES as u64));
+    read_tonewright(&mut g);
+    read_hound_per_sample(&mut g);
+    write_tonewright(&mut g);
+    write_hound_per_sample(&mut g);
+    write_hound_i16_writer(&mut g);
+    commit_tonewright(&mut g);
+    g.finish();
     for name in ["input", "hound", "hound16", "ours-committed"] {
         remove(&path(name));
     }
@@ -82,70 +106,85 @@ fn remove(p: &Path) {
     let _ = std::fs::remove_file(p);
 }
 
-#[divan::bench(sample_count = 20, sample_size = 1)]
-fn read_tonewright(bencher: Bencher) {
+fn read_tonewright(g: &mut Group) {
     let p = input_file();
-    bencher.counter(ItemsCount::new(SAMPLES)).bench_local(|| {
-        let mut r = WavReader::open(&p).expect("open");
-        let (mut block, mut sum) = (Vec::new(), 0.0);
-        while r.read_block(&mut block, BLOCK_FRAMES).expect("read") > 0 {
-            sum += block.iter().sum::<f64>();
-        }
-        sum
+    g.bench_function("read_tonewright", |b| {
+        b.iter(|| {
+            let mut r = WavReader::open(&p).expect("open");
+            let (mut block, mut sum) = (Vec::new(), 0.0);
+            while r.read_block(&mut block, BLOCK_FRAMES).expect("read") > 0 {
+                sum += block.iter().sum::<f64>();
+            }
+            sum
+        })
     });
 }
 
-#[divan::bench(sample_count = 20, sample_size = 1)]
-fn read_hound_per_sample(bencher: Bencher) {
+fn read_hound_per_sample(g: &mut Group) {
     let p = input_file();
-    bencher.counter(ItemsCount::new(SAMPLES)).bench_local(|| {
-        let mut r = hound::WavReader::open(&p).expect("open");
-        r.samples::<i16>().map(|s| f64::from(s.expect("sample")) / 32768.0).sum::<f64>()
+    g.bench_function("read_hound_per_sample", |b| {
+        b.iter(|| {
+            let mut r = hound::WavReader::open(&p).expect("open");
+            r.samples::<i16>().map(|s| f64::from(s.expect("sample")) / 32768.0).sum::<f64>()
+        })
     });
 }
 
 /// Dropping the unfinished writer (untimed) removes its temporary file.
-#[divan::bench(sample_count = 20, sample_size = 1)]
-fn write_tonewright(bencher: Bencher) {
+fn write_tonewright(g: &mut Group) {
     let (x, p) = (samples(), path("ours"));
-    bencher.counter(ItemsCount::new(SAMPLES)).bench_local(|| write_ours(&p, &x));
-}
-
-/// Dropping the writer (untimed) finalizes the file.
-#[divan::bench(sample_count = 20, sample_size = 1)]
-fn write_hound_per_sample(bencher: Bencher) {
-    let (c, p) = (codes(), path("hound"));
-    bencher.counter(ItemsCount::new(SAMPLES)).with_inputs(|| remove(&p)).bench_local_values(|()| {
-        let mut w = hound::WavWriter::create(&p, hound_spec()).expect("create");
-        for &s in &c {
-            w.write_sample(s).expect("write");
-        }
-        w
+    g.bench_function("write_tonewright", |b| {
+        b.iter_batched(|| (), |()| write_ours(&p, &x), BatchSize::PerIteration)
     });
 }
 
-#[divan::bench(sample_count = 20, sample_size = 1)]
-fn write_hound_i16_writer(bencher: Bencher) {
+/// Dropping the writer (untimed) finalizes the file.
+fn write_hound_per_sample(g: &mut Group) {
+    let (c, p) = (codes(), path("hound"));
+    g.bench_function("write_hound_per_sample", |b| {
+        b.iter_batched(
+            || remove(&p),
+            |()| {
+                let mut w = hound::WavWriter::create(&p, hound_spec()).expect("create");
+                for &s in &c {
+                    w.write_sample(s).expect("write");
+                }
+                w
+            },
+            BatchSize::PerIteration,
+        )
+    });
+}
+
+fn write_hound_i16_writer(g: &mut Group) {
     let (c, p) = (codes(), path("hound16"));
-    bencher.counter(ItemsCount::new(SAMPLES)).with_inputs(|| remove(&p)).bench_local_values(|()| {
-        let mut w = hound::WavWriter::create(&p, hound_spec()).expect("create");
-        for block in c.chunks(2 * BLOCK_FRAMES) {
-            let mut f = w.get_i16_writer(block.len() as u32);
-            for &s in block {
-                f.write_sample(s);
-            }
-            f.flush().expect("flush");
-        }
-        w
+    g.bench_function("write_hound_i16_writer", |b| {
+        b.iter_batched(
+            || remove(&p),
+            |()| {
+                let mut w = hound::WavWriter::create(&p, hound_spec()).expect("create");
+                for block in c.chunks(2 * BLOCK_FRAMES) {
+                    let mut f = w.get_i16_writer(block.len() as u32);
+                    for &s in block {
+                        f.write_sample(s);
+                    }
+                    f.flush().expect("flush");
+                }
+                w
+            },
+            BatchSize::PerIteration,
+        )
     });
 }
 
 /// The durable commit of a written file, which replaces the previous iteration's.
-#[divan::bench(sample_count = 20, sample_size = 1)]
-fn commit_tonewright(bencher: Bencher) {
+fn commit_tonewright(g: &mut Group) {
     let (x, p) = (samples(), path("ours-committed"));
-    bencher
-        .counter(ItemsCount::new(SAMPLES))
-        .with_inputs(|| write_ours(&p, &x))
-        .bench_local_values(|w| w.finish().expect("finish"));
+    g.bench_function("commit_tonewright", |b| {
+        b.iter_batched(
+            || write_ours(&p, &x),
+            |w| w.finish().expect("finish"),
+            BatchSize::PerIteration,
+        )
+    });
 }
