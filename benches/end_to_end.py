@@ -13,10 +13,11 @@ sections of benches/eight-sections.toml.
 
 Run from the crate root after `cargo build --release`:
     env -u OPENBLAS_CORETYPE -u OPENBLAS_L2_SIZE python3 benches/end_to_end.py
-Prints median wall-clock seconds of 3 runs each, and the ratios.
+Prints median wall-clock and CPU seconds of 5 runs each, and the ratios.
 """
 import json
 import os
+import resource
 import statistics
 import subprocess
 import sys
@@ -30,7 +31,7 @@ import scipy.signal
 
 TOOL = os.path.join("target", "release", "tonewright")
 DESIGN = os.path.join("benches", "eight-sections.toml")
-RATE, SECONDS, RUNS = 48000, 600, 3
+RATE, SECONDS, RUNS = 48000, 600, 5
 
 
 def make_input(path):
@@ -44,13 +45,22 @@ def make_input(path):
             w.writeframes(block.tobytes())
 
 
+def cpu_seconds():
+    """User + system seconds of this process (numpy, scipy) and its children (tonewright)."""
+    return sum(u.ru_utime + u.ru_stime for u in (resource.getrusage(resource.RUSAGE_SELF),
+                                                  resource.getrusage(resource.RUSAGE_CHILDREN)))
+
+
 def timed(fn):
-    times = []
+    """Median wall-clock and median CPU seconds of `RUNS` runs of `fn`."""
+    walls, cpus = [], []
     for _ in range(RUNS):
+        before = cpu_seconds()
         start = time.perf_counter()
         fn()
-        times.append(time.perf_counter() - start)
-    return statistics.median(times)
+        walls.append(time.perf_counter() - start)
+        cpus.append(cpu_seconds() - before)
+    return statistics.median(walls), statistics.median(cpus)
 
 
 def main():
@@ -100,17 +110,20 @@ def main():
             subprocess.run([TOOL, "apply", DESIGN, src, second, "-o", folder],
                            check=True, capture_output=True)
 
-        t_tool, t_compare = timed(tool), timed(compare)
-        t_base, t_py = timed(baseline), timed(numpy_scipy)
-        t_one, t_two = timed(one_file), timed(two_files)
+        (t_tool, c_tool), (t_compare, c_compare) = timed(tool), timed(compare)
+        (t_base, c_base), (t_py, c_py) = timed(baseline), timed(numpy_scipy)
+        (t_one, c_one), (t_two, c_two) = timed(one_file), timed(two_files)
     print(f"scipy {scipy.__version__}, numpy {np.__version__}, load {os.getloadavg()[0]:.2f}")
-    print(f"tonewright apply, q15 + f64 outputs : {t_tool:7.2f} s")
-    print(f"tonewright apply --compare (q15 file): {t_compare:7.2f} s")
-    print(f"tonewright apply, pass-through       : {t_base:7.2f} s  (ratios {t_tool / t_base:.2f} and "
-          f"{t_compare / t_base:.2f}, target <= 1.5)")
-    print(f"numpy + scipy.signal.sosfilt (f64)   : {t_py:7.2f} s  (tonewright / scipy {t_tool / t_py:.2f}, target < 0.5)")
-    print(f"tonewright apply, q15 only, one file : {t_one:7.2f} s")
-    print(f"tonewright apply, q15 only, two files: {t_two:7.2f} s  (throughput {2 * t_one / t_two:.2f}x one file, target close to 2)")
+    print("                                        wall       CPU")
+    print(f"tonewright apply, q15 + f64 outputs  : {t_tool:5.2f} s  {c_tool:5.2f} s")
+    print(f"tonewright apply --compare (q15 file): {t_compare:5.2f} s  {c_compare:5.2f} s")
+    print(f"tonewright apply, pass-through       : {t_base:5.2f} s  {c_base:5.2f} s  (ratios "
+          f"{t_tool / t_base:.2f} and {t_compare / t_base:.2f}, target <= 1.5)")
+    print(f"numpy + scipy.signal.sosfilt (f64)   : {t_py:5.2f} s  {c_py:5.2f} s  "
+          f"(tonewright / scipy {t_tool / t_py:.2f}, target < 0.5)")
+    print(f"tonewright apply, q15 only, one file : {t_one:5.2f} s  {c_one:5.2f} s")
+    print(f"tonewright apply, q15 only, two files: {t_two:5.2f} s  {c_two:5.2f} s  "
+          f"(throughput {2 * t_one / t_two:.2f}x one file, target close to 2)")
 
 
 if __name__ == "__main__":
