@@ -20,6 +20,6 @@ mod report;
 mod run;
 
 pub use blocks::BLOCK_FRAMES;
-pub use rejection::{stop_frequency, StopBand};
+pub use rejection::{stop_frequency, StopBand, BAND_REJECT_DB};
 pub use report::{FileReport, Rejection};
 pub use run::{apply_file, check_batch, ApplyOptions, Outputs};

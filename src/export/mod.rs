@@ -2,7 +2,7 @@
 //!
 //! In: a [`Port`] (float64 cascade at one rate and knob setting) and
 //! [`ExportOptions`]. Out: an [`Export`] holding every output file's text, the knob
-//! interpolation advice and the warnings; [`write`] puts the files on disk, all or
+//! interpolation advice and the warnings; [`write()`] puts the files on disk, all or
 //! nothing. The stored numbers are exactly what the rest of the tool runs: fixed
 //! targets get the integers of [`crate::quantize::quantize`], f32 targets the
 //! coefficients of [`crate::quantize::round_to_f32`], f64 targets the cascade itself.

@@ -16,7 +16,7 @@ pub struct NodeGain {
     pub node: &'static str,
     /// Largest gain for a sine, max |H(e^{jω})|.
     pub linf: f64,
-    /// Largest gain for any bounded input, Σ|h[n]|.
+    /// Largest gain for any bounded input, Σ|h\[n\]|.
     pub l1: f64,
     /// Largest magnitude the node holds, in data full-scale units.
     pub capacity: f64,

@@ -31,6 +31,7 @@ pub use format::{FixedFormat, NumberFormat, Overflow, Rounding, Structure, ACC_B
 pub use headroom::{headroom, HeadroomReport, NodeGain};
 pub use limit_cycle::{
     find_limit_cycle, LimitCycle, LimitCycleSearch, LIMIT_CYCLE_SEEDS, MAX_PERIOD,
+    MIN_LIMIT_CYCLE_SEEDS,
 };
 pub use noise::{rounding_noise, NoiseReport};
 pub use report::{analyze, default_band, Deviation, QuantReport, SectionReport};

@@ -1,6 +1,6 @@
 //! Digital second-order sections: pairing, ordering and gain scaling.
 //!
-//! In: a [`DigitalZpk`](crate::discretize::DigitalZpk). Out: a float64 [`Cascade`].
+//! In: a [`crate::discretize::DigitalZpk`]. Out: a float64 [`Cascade`].
 //! Convention, drawn once for the whole crate:
 //!
 //! ```text

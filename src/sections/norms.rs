@@ -53,7 +53,7 @@ fn impulse_sum(sections: &[Sos], f: impl Fn(f64) -> f64) -> f64 {
     total
 }
 
-/// Σ|h[n]|: the largest output peak for an input bounded by 1 (∞ if unstable).
+/// Σ|h\[n\]|: the largest output peak for an input bounded by 1 (∞ if unstable).
 ///
 /// ```
 /// use tonewright::sections::norms::l1_norm;
@@ -66,7 +66,7 @@ pub fn l1_norm(sections: &[Sos]) -> f64 {
     impulse_sum(sections, f64::abs)
 }
 
-/// √(Σ h[n]²): output RMS for unit-variance white input (∞ if unstable).
+/// √(Σ h\[n\]²): output RMS for unit-variance white input (∞ if unstable).
 ///
 /// ```
 /// use tonewright::sections::norms::l2_norm;

@@ -7,13 +7,13 @@
 //! pairs, and warnings (poles in the right half-plane or on the imaginary axis, parts
 //! ignored because both ends are one node).
 //!
-//! Method. Modified nodal analysis [1] writes the circuit as (A0 + z·A1)·x = b in the
+//! Method. Modified nodal analysis \[1\] writes the circuit as (A0 + z·A1)·x = b in the
 //! scaled frequency z = s/ω_ref, where ω_ref is the geometric mean of the parts' own
 //! rates (1/RC, R/L). By Cramer's rule H = det N(z) / det A(z), where N is A with the
 //! output column replaced by b; both determinants are polynomials of degree at most the
 //! number of capacitors and inductors. Each is evaluated by LU at points on the circle
 //! |z| = 1, its coefficients come from a discrete Fourier transform of those values
-//! [3], and its roots from Aberth iteration [2] on the scaled polynomial, refined
+//! \[3\], and its roots from Aberth iteration \[2\] on the scaled polynomial, refined
 //! against the matrix itself with the exact derivative d/dz ln det A = trace(A⁻¹·A1).
 //! The gain is H at the sample point farthest from every root divided by the root
 //! factors there, and the result is checked against H solved directly at every
