@@ -151,9 +151,11 @@ fn stage_model(
         StageKind::Gain { db } => {
             let amp = 10f64.powf(knobs.value(db) / 20.0);
             if !amp.is_finite() {
+                let v = knobs.value(db);
+                // Exponent form for values too long to read (1e300 written out).
+                let shown = if v.abs() < 1e9 { v.to_string() } else { format!("{v:e}") };
                 return Err(db.place.error(format!(
-                    "{} dB is a gain beyond the f64 range (at most about 6000 dB)",
-                    knobs.value(db)
+                    "{shown} dB is a gain beyond the f64 range (at most about 6000 dB)"
                 )));
             }
             ("gain", vec![AnalogSection::gain(amp)])
