@@ -180,6 +180,7 @@ fn bad_option_values_are_refused_before_any_output() {
         (vec!["--bits", "12"], "error: --bits 12: expected"),
         (vec!["--knob", "tone=0.5"], "error: --knob tone=0.5: "),
         (vec!["--rate", "nan"], "error: rate NaN Hz must be"),
+        (vec!["--rate", "-5"], "error: rate -5 Hz must be"),
     ] {
         let result = tonewright(base.iter().chain(&extra));
         assert_refused(&extra.join(" "), &result, want);

@@ -11,8 +11,8 @@ pub struct DesignArgs {
     /// The design file (TOML).
     pub design: PathBuf,
     /// Sample rate in Hz to discretize at (default: the design's `[target] rate`, else
-    /// an input file's).
-    #[arg(long)]
+    /// an input file's). A negative value reaches the range check, which names it.
+    #[arg(long, allow_negative_numbers = true)]
     pub rate: Option<f64>,
     /// Knob position, NAME=POS with POS from 0 to 1 (repeatable).
     #[arg(long = "knob", value_name = "NAME=POS")]
