@@ -15,9 +15,10 @@ use super::{blocks, through, Channel, Params, SectionCoefs};
 use std::arch::x86_64::{
     __m256i, _mm256_add_epi64, _mm256_alignr_epi64, _mm256_and_si256, _mm256_blend_epi32,
     _mm256_blendv_epi8, _mm256_castsi256_pd, _mm256_cmpgt_epi64, _mm256_extract_epi64,
-    _mm256_loadu_si256, _mm256_movemask_pd, _mm256_mul_epi32, _mm256_or_si256,
-    _mm256_permute4x64_epi64, _mm256_set1_epi64x, _mm256_setzero_si256, _mm256_sllv_epi64,
-    _mm256_srav_epi64, _mm256_srlv_epi64, _mm256_storeu_si256, _mm256_sub_epi64, _mm256_xor_si256,
+    _mm256_loadu_si256, _mm256_max_epi64, _mm256_min_epi64, _mm256_movemask_pd, _mm256_mul_epi32,
+    _mm256_or_si256, _mm256_permute4x64_epi64, _mm256_set1_epi64x, _mm256_setzero_si256,
+    _mm256_sllv_epi64, _mm256_srav_epi64, _mm256_srlv_epi64, _mm256_storeu_si256, _mm256_sub_epi64,
+    _mm256_xor_si256,
 };
 
 /// Frames per pass: a marked wave redoes one pass; the 2 (lanes − 1) masked steps that
@@ -168,6 +169,15 @@ struct Wave<const V: usize> {
     unbias: __m256i,
 }
 
+/// What marks a wave to be redone: the sign bits of `marks` (a sum out of range in a
+/// masked step, an overflowed addition), and the lowest and highest sums per lane of
+/// the other steps (AVX-512 only; they start inside the range).
+struct Bad<const V: usize> {
+    marks: __m256i,
+    lowest: Regs<V>,
+    highest: Regs<V>,
+}
+
 /// States per lane: df1 x1, x2, y1, y2, e1, e2; df2t s1, s2 and four unused.
 type States<const V: usize> = [Regs<V>; 6];
 
@@ -227,7 +237,8 @@ unsafe fn wave<
     };
     let mut s: States<V> = std::array::from_fn(|j| regs(&|k| state[k][j]));
     let mut x: Regs<V> = [_mm256_set1_epi64x(buf[0]); V];
-    let mut bad = _mm256_setzero_si256();
+    let mut bad =
+        Bad::<V> { marks: _mm256_setzero_si256(), lowest: wave.fast_lo, highest: wave.fast_lo };
     let body = lanes - 1..(m - 1).max(lanes - 1);
     for t in 0..body.start {
         wave.step::<true, PASSING, EVEN, EF, DF2T, WIDE, X512>(&mut s, &mut x, &mut bad, buf, t);
@@ -238,7 +249,12 @@ unsafe fn wave<
     for t in body.end..m + lanes - 1 {
         wave.step::<true, PASSING, EVEN, EF, DF2T, WIDE, X512>(&mut s, &mut x, &mut bad, buf, t);
     }
-    if _mm256_movemask_pd(_mm256_castsi256_pd(bad)) != 0 {
+    for v in 0..V {
+        let (lo, hi) = (wave.fast_lo[v], wave.fast_hi[v]);
+        bad.marks = _mm256_or_si256(bad.marks, outside(bad.lowest[v], lo, hi));
+        bad.marks = _mm256_or_si256(bad.marks, outside(bad.highest[v], lo, hi));
+    }
+    if _mm256_movemask_pd(_mm256_castsi256_pd(bad.marks)) != 0 {
         return false;
     }
     for (j, r) in s.iter().enumerate() {
@@ -279,7 +295,7 @@ impl<const V: usize> Wave<V> {
         &self,
         s: &mut States<V>,
         x: &mut Regs<V>,
-        bad: &mut __m256i,
+        bad: &mut Bad<V>,
         buf: &mut [i64],
         t: usize,
     ) {
@@ -302,7 +318,7 @@ impl<const V: usize> Wave<V> {
             let y;
             if DF2T {
                 let acc = add::<WIDE>(mul(b0[v], xv), s[0][v], &mut marks);
-                marks = _mm256_or_si256(marks, outside(acc, self.fast_lo[v], self.fast_hi[v]));
+                self.check::<MASKED, X512>(&mut marks, bad, acc, v);
                 y = self.round::<EVEN, X512>(acc, v, false);
                 let n1 = add::<WIDE>(sub(mul(b1[v], xv), mul(a1[v], y)), s[1][v], &mut marks);
                 let n2 = sub(mul(b2[v], xv), mul(a2[v], y));
@@ -332,7 +348,7 @@ impl<const V: usize> Wave<V> {
                     sum = add::<WIDE>(sum, self.addend[v], &mut marks);
                 }
                 sum = add::<WIDE>(sum, mul(b0[v], xv), &mut marks);
-                marks = _mm256_or_si256(marks, outside(sum, self.fast_lo[v], self.fast_hi[v]));
+                self.check::<MASKED, X512>(&mut marks, bad, sum, v);
                 y = self.round::<EVEN, X512>(sum, v, halve);
                 let mut next = [xv, s[0][v], y, s[2][v], s[4][v], s[5][v]];
                 if EF > 0 {
@@ -344,7 +360,7 @@ impl<const V: usize> Wave<V> {
                     st[v] = keep::<MASKED>(st[v], nx, active);
                 }
             }
-            *bad = _mm256_or_si256(*bad, _mm256_and_si256(marks, counted));
+            bad.marks = _mm256_or_si256(bad.marks, _mm256_and_si256(marks, counted));
             out[v] = if PASSING { _mm256_blendv_epi8(y, xv, self.passing[v]) } else { y };
         }
         if !MASKED || t + 1 >= lanes {
@@ -371,6 +387,26 @@ impl<const V: usize> Wave<V> {
                     _mm256_permute4x64_epi64::<0b10_01_00_11>(out[v - 1])
                 },
             );
+        }
+    }
+
+    /// Checks that lane `v`'s `sum` lies in the fast range: with AVX-512, outside the
+    /// masked steps, by keeping the lowest and highest sums of the pass (two
+    /// operations instead of two comparisons and three logical ones), checked once at
+    /// its end; otherwise by setting `marks` where it does not.
+    #[inline(always)]
+    unsafe fn check<const MASKED: bool, const X512: bool>(
+        &self,
+        marks: &mut __m256i,
+        bad: &mut Bad<V>,
+        sum: __m256i,
+        v: usize,
+    ) {
+        if X512 && !MASKED {
+            bad.lowest[v] = _mm256_min_epi64(bad.lowest[v], sum);
+            bad.highest[v] = _mm256_max_epi64(bad.highest[v], sum);
+        } else {
+            *marks = _mm256_or_si256(*marks, outside(sum, self.fast_lo[v], self.fast_hi[v]));
         }
     }
 
