@@ -200,7 +200,8 @@ fn round<const EVEN: bool, const SAFE: bool>(v: i64, s: &SectionCoefs) -> i64 {
 /// fit_D with the overflow count.
 #[inline(always)]
 fn fit_data<const SAT: bool>(v: i64, p: &Params, count: &mut u64) -> i64 {
-    let y = if SAT { v.clamp(p.data_lo, p.data_hi) } else { (v << p.data_wrap) >> p.data_wrap };
+    // Not `clamp`, whose check of its bounds stays in loops.
+    let y = if SAT { v.max(p.data_lo).min(p.data_hi) } else { (v << p.data_wrap) >> p.data_wrap };
     *count += u64::from(y != v);
     y
 }
@@ -404,13 +405,30 @@ fn through<const SAT: bool>(
     let mut count = 0;
     for chunk in samples.chunks_mut(buf.len() * n) {
         let buf = &mut buf[..chunk.len() / n];
-        for (v, frame) in buf.iter_mut().zip(chunk.chunks_exact(n)) {
-            *v = fit_data::<SAT>(i64::from(frame[ch]), p, &mut count);
+        // A local count: the one `f` is also handed would be kept in memory, a store
+        // and a load on every sample.
+        let mut fits = 0;
+        let mut fit = |v: &mut i64, x: &i32| *v = fit_data::<SAT>(i64::from(*x), p, &mut fits);
+        // Mono and each channel of stereo with a constant index, so the loops vectorise.
+        match (n, ch) {
+            (1, _) => buf.iter_mut().zip(&*chunk).for_each(|(v, x)| fit(v, x)),
+            (2, 0) => buf.iter_mut().zip(chunk.as_chunks::<2>().0).for_each(|(v, f)| fit(v, &f[0])),
+            (2, _) => buf.iter_mut().zip(chunk.as_chunks::<2>().0).for_each(|(v, f)| fit(v, &f[1])),
+            _ => buf.iter_mut().zip(chunk.chunks_exact(n)).for_each(|(v, f)| fit(v, &f[ch])),
         }
+        count += fits;
         f(buf, &mut count);
-        for (v, frame) in buf.iter().zip(chunk.chunks_exact_mut(n)) {
-            // Every value fits the data word, which is at most 32 bits wide.
-            frame[ch] = *v as i32;
+        // Every value fits the data word, which is at most 32 bits wide.
+        let frames = buf.iter().map(|&v| v as i32);
+        match (n, ch) {
+            (1, _) => chunk.iter_mut().zip(frames).for_each(|(x, v)| *x = v),
+            (2, 0) => {
+                chunk.as_chunks_mut::<2>().0.iter_mut().zip(frames).for_each(|(f, v)| f[0] = v)
+            }
+            (2, _) => {
+                chunk.as_chunks_mut::<2>().0.iter_mut().zip(frames).for_each(|(f, v)| f[1] = v)
+            }
+            _ => chunk.chunks_exact_mut(n).zip(frames).for_each(|(f, v)| f[ch] = v),
         }
     }
     count
