@@ -81,6 +81,31 @@ pub struct FixedEngine {
     scratch: Vec<i64>,
 }
 
+/// The choices of arithmetic a kernel is compiled for, as constants: saturate (else
+/// wrap), round half to even, error-feedback order, df2t (else df1), and a 64-bit
+/// accumulator whose sums are checked for overflow. One type parameter stands for
+/// all five.
+trait Arith {
+    const SAT: bool;
+    const EVEN: bool;
+    const EF: u32;
+    const DF2T: bool;
+    const WIDE: bool;
+}
+
+/// The [`Arith`] of the const parameters.
+struct Flags<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>;
+
+impl<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool> Arith
+    for Flags<SAT, EVEN, EF, DF2T, WIDE>
+{
+    const SAT: bool = SAT;
+    const EVEN: bool = EVEN;
+    const EF: u32 = EF;
+    const DF2T: bool = DF2T;
+    const WIDE: bool = WIDE;
+}
+
 /// Word limits of one format, shared by every section.
 #[derive(Debug, Clone, Copy)]
 struct Params {
@@ -142,10 +167,10 @@ const BLOCK: usize = 64;
 const GROUP: usize = 2;
 
 /// The sum of `terms` (each fits i64) if it is exact in i64: always when A ≤ 56
-/// (|sum| < 2^57), and with `WIDE` (A = 64) when no addition overflowed.
+/// (|sum| < 2^57), and with `F::WIDE` (A = 64) when no addition overflowed.
 #[inline(always)]
-fn exact_sum<const WIDE: bool, const N: usize>(terms: [i64; N]) -> Option<i64> {
-    if WIDE {
+fn exact_sum<F: Arith, const N: usize>(terms: [i64; N]) -> Option<i64> {
+    if F::WIDE {
         let mut sum = terms[0];
         for &t in &terms[1..] {
             sum = sum.checked_add(t)?;
@@ -164,18 +189,16 @@ fn within(v: i64, lo: i64, span: u64) -> bool {
 
 /// fit_A of the exact sum of `terms`, counting a change.
 #[inline(always)]
-fn fit_sum<const SAT: bool, const WIDE: bool, const N: usize>(
-    terms: [i64; N],
-    p: &Params,
-    count: &mut u64,
-) -> i64 {
-    let (sum, a) = if WIDE {
+fn fit_sum<F: Arith, const N: usize>(terms: [i64; N], p: &Params, count: &mut u64) -> i64 {
+    let (sum, a) = if F::WIDE {
         let sum: i128 = terms.iter().map(|&t| i128::from(t)).sum();
-        let a = if SAT { sum.clamp(i64::MIN.into(), i64::MAX.into()) as i64 } else { sum as i64 };
+        let a =
+            if F::SAT { sum.clamp(i64::MIN.into(), i64::MAX.into()) as i64 } else { sum as i64 };
         (sum, a)
     } else {
         let sum: i64 = terms.iter().sum();
-        let a = if SAT { sum.clamp(p.acc_lo, p.acc_hi) } else { (sum << p.acc_wrap) >> p.acc_wrap };
+        let a =
+            if F::SAT { sum.clamp(p.acc_lo, p.acc_hi) } else { (sum << p.acc_wrap) >> p.acc_wrap };
         (i128::from(sum), a)
     };
     *count += u64::from(i128::from(a) != sum);
@@ -186,8 +209,8 @@ fn fit_sum<const SAT: bool, const WIDE: bool, const N: usize>(
 /// is used only where `v + 2^(r−1)` cannot pass i64; elsewhere the dropped bits are
 /// rounded apart: ⌊(v + h)/2^r⌋ = (v >> r) + ((v & mask) + h) >> r.
 #[inline(always)]
-fn round<const EVEN: bool, const SAFE: bool>(v: i64, s: &SectionCoefs) -> i64 {
-    if EVEN {
+fn round<F: Arith, const SAFE: bool>(v: i64, s: &SectionCoefs) -> i64 {
+    if F::EVEN {
         let q = v >> s.r;
         q + i64::from((v & s.mask) + (q & 1) > s.even_thr)
     } else if SAFE {
@@ -199,9 +222,10 @@ fn round<const EVEN: bool, const SAFE: bool>(v: i64, s: &SectionCoefs) -> i64 {
 
 /// fit_D with the overflow count.
 #[inline(always)]
-fn fit_data<const SAT: bool>(v: i64, p: &Params, count: &mut u64) -> i64 {
+fn fit_data<F: Arith>(v: i64, p: &Params, count: &mut u64) -> i64 {
     // Not `clamp`, whose check of its bounds stays in loops.
-    let y = if SAT { v.max(p.data_lo).min(p.data_hi) } else { (v << p.data_wrap) >> p.data_wrap };
+    let y =
+        if F::SAT { v.max(p.data_lo).min(p.data_hi) } else { (v << p.data_wrap) >> p.data_wrap };
     *count += u64::from(y != v);
     y
 }
@@ -213,22 +237,14 @@ fn fit_data<const SAT: bool>(v: i64, p: &Params, count: &mut u64) -> i64 {
 ///
 /// `EXACT`: the arithmetic of the documentation step by step, counting overflows;
 /// always returns true. Otherwise the fast path, which returns false, leaving `state`
-/// and `count` as they were, at the first sum that is not exact in i64 (`WIDE`) or
+/// and `count` as they were, at the first sum that is not exact in i64 (`F::WIDE`) or
 /// that leaves its overflow-free range: for a narrowing, the section's `fast` range
 /// [data_lo·2^r, (data_hi − 1)·2^r], which lies inside the accumulator range
 /// (A ≥ coef_bits + data_bits > data_bits + r) and which rounding cannot leave (it
 /// moves a value by less than one step of 2^r); for a df2t state, the accumulator
 /// range. Inside those ranges every fit is the identity, so both paths agree.
 #[inline(always)]
-fn sections<
-    const SAT: bool,
-    const EVEN: bool,
-    const EF: u32,
-    const DF2T: bool,
-    const WIDE: bool,
-    const G: usize,
-    const EXACT: bool,
->(
+fn sections<F: Arith, const G: usize, const EXACT: bool>(
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
@@ -243,33 +259,29 @@ fn sections<
         let mut x = v;
         for (s, t) in sc.iter().zip(st.iter_mut()) {
             let [b0, b1, b2, a1, a2] = s.c;
-            x = if DF2T {
-                let Some((_, _, y)) =
-                    narrow::<SAT, EVEN, WIDE, EXACT, 2>([b0 * x, t[0]], s, p, &mut n)
-                else {
+            x = if F::DF2T {
+                let Some((_, _, y)) = narrow::<F, EXACT, 2>([b0 * x, t[0]], s, p, &mut n) else {
                     return false;
                 };
-                let Some(s1) = acc_of::<SAT, WIDE, EXACT, 3>([b1 * x, -(a1 * y), t[1]], p, &mut n)
-                else {
+                let Some(s1) = acc_of::<F, EXACT, 3>([b1 * x, -(a1 * y), t[1]], p, &mut n) else {
                     return false;
                 };
-                let Some(s2) = acc_of::<SAT, WIDE, EXACT, 2>([b2 * x, -(a2 * y)], p, &mut n) else {
+                let Some(s2) = acc_of::<F, EXACT, 2>([b2 * x, -(a2 * y)], p, &mut n) else {
                     return false;
                 };
                 *t = [s1, s2, t[2], t[3], t[4], t[5]];
                 y
             } else {
-                let fb = match EF {
+                let fb = match F::EF {
                     0 => 0,
                     1 => t[4],
                     _ => 2 * t[4] - t[5],
                 };
                 let terms = [b0 * x, b1 * t[0], b2 * t[1], -(a1 * t[2]), -(a2 * t[3]), fb];
-                let Some((acc, q, y)) = narrow::<SAT, EVEN, WIDE, EXACT, 6>(terms, s, p, &mut n)
-                else {
+                let Some((acc, q, y)) = narrow::<F, EXACT, 6>(terms, s, p, &mut n) else {
                     return false;
                 };
-                if EF > 0 {
+                if F::EF > 0 {
                     // |e| ≤ 2^r: exact even where q·2^r alone would pass i64.
                     let e = acc.wrapping_sub(q.wrapping_shl(s.r));
                     *t = [x, t[0], y, t[2], e, t[4]];
@@ -282,7 +294,7 @@ fn sections<
         }
         *out = x;
     }
-    if !DF2T && EF == 0 && !input.is_empty() {
+    if !F::DF2T && F::EF == 0 && !input.is_empty() {
         // Without feedback each sample shifts e1 → e2 and stores e1 = 0.
         for t in &mut st {
             t[5] = if input.len() == 1 { t[4] } else { 0 };
@@ -296,50 +308,44 @@ fn sections<
 
 /// fit_A of the sum of `terms`; `None` on the fast path when it is not the identity.
 #[inline(always)]
-fn acc_of<const SAT: bool, const WIDE: bool, const EXACT: bool, const N: usize>(
+fn acc_of<F: Arith, const EXACT: bool, const N: usize>(
     terms: [i64; N],
     p: &Params,
     count: &mut u64,
 ) -> Option<i64> {
     if EXACT {
-        return Some(fit_sum::<SAT, WIDE, N>(terms, p, count));
+        return Some(fit_sum::<F, N>(terms, p, count));
     }
-    let sum = exact_sum::<WIDE, N>(terms)?;
-    (WIDE || within(sum, p.acc_lo, p.acc_span)).then_some(sum)
+    let sum = exact_sum::<F, N>(terms)?;
+    (F::WIDE || within(sum, p.acc_lo, p.acc_span)).then_some(sum)
 }
 
 /// The narrowing y = fit_D(round_r(fit_A(sum of `terms`))) as (acc, round_r(acc), y);
 /// `None` on the fast path when a fit would not be the identity.
 #[inline(always)]
-fn narrow<
-    const SAT: bool,
-    const EVEN: bool,
-    const WIDE: bool,
-    const EXACT: bool,
-    const N: usize,
->(
+fn narrow<F: Arith, const EXACT: bool, const N: usize>(
     terms: [i64; N],
     s: &SectionCoefs,
     p: &Params,
     count: &mut u64,
 ) -> Option<(i64, i64, i64)> {
     if EXACT {
-        let acc = fit_sum::<SAT, WIDE, N>(terms, p, count);
-        let q = round::<EVEN, true>(acc, s);
-        return Some((acc, q, fit_data::<SAT>(q, p, count)));
+        let acc = fit_sum::<F, N>(terms, p, count);
+        let q = round::<F, true>(acc, s);
+        return Some((acc, q, fit_data::<F>(q, p, count)));
     }
-    let sum = exact_sum::<WIDE, N>(terms)?;
+    let sum = exact_sum::<F, N>(terms)?;
     if !within(sum, s.fast_lo, s.fast_span) {
         return None;
     }
-    let q = round::<EVEN, false>(sum, s);
+    let q = round::<F, false>(sum, s);
     Some((sum, q, q))
 }
 
 /// A group of `size` sections (1 to [`GROUP`]) from `input` to `output`: the fast
 /// path of [`sections`], and the exact one from the same state when it gives up.
 #[inline(always)]
-fn group<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
+fn group<F: Arith>(
     size: usize,
     p: &Params,
     secs: &[SectionCoefs],
@@ -349,18 +355,18 @@ fn group<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, con
 ) {
     let (input, output) = io;
     let done = match size {
-        1 => sections::<SAT, EVEN, EF, DF2T, WIDE, 1, false>(p, secs, state, input, output, count),
-        _ => sections::<SAT, EVEN, EF, DF2T, WIDE, 2, false>(p, secs, state, input, output, count),
+        1 => sections::<F, 1, false>(p, secs, state, input, output, count),
+        _ => sections::<F, 2, false>(p, secs, state, input, output, count),
     };
     if !done {
-        exact::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, input, output, count);
+        exact::<F>(p, secs, state, input, output, count);
     }
 }
 
 /// The exact path of [`sections`], one section at a time, kept out of the fast loop.
 #[cold]
 #[inline(never)]
-fn exact<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
+fn exact<F: Arith>(
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
@@ -374,20 +380,20 @@ fn exact<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, con
         let mut tmp = [0i64; BLOCK];
         let tmp = &mut tmp[..output.len()];
         tmp.copy_from_slice(output);
-        sections::<SAT, EVEN, EF, DF2T, WIDE, 1, true>(p, secs, state, tmp, output, count);
+        sections::<F, 1, true>(p, secs, state, tmp, output, count);
     }
 }
 
 /// The cascade over one channel, block by block.
-fn run<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
+fn run<F: Arith>(
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
     io: Channel<'_>,
     scratch: &mut [i64],
 ) -> u64 {
-    through::<SAT>(p, io, &mut scratch[..BLOCK], |buf, count| {
-        blocks::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, buf, count);
+    through::<F>(p, io, &mut scratch[..BLOCK], |buf, count| {
+        blocks::<F>(p, secs, state, buf, count);
     })
 }
 
@@ -395,7 +401,7 @@ fn run<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const
 /// into `buf`, processed there by `f` (which adds its overflow events to the count),
 /// and written back. Returns the overflow events.
 #[inline(always)]
-fn through<const SAT: bool>(
+fn through<F: Arith>(
     p: &Params,
     io: Channel<'_>,
     buf: &mut [i64],
@@ -408,7 +414,7 @@ fn through<const SAT: bool>(
         // A local count: the one `f` is also handed would be kept in memory, a store
         // and a load on every sample.
         let mut fits = 0;
-        let mut fit = |v: &mut i64, x: &i32| *v = fit_data::<SAT>(i64::from(*x), p, &mut fits);
+        let mut fit = |v: &mut i64, x: &i32| *v = fit_data::<F>(i64::from(*x), p, &mut fits);
         // Mono and each channel of stereo with a constant index, so the loops vectorise.
         match (n, ch) {
             (1, _) => buf.iter_mut().zip(&*chunk).for_each(|(v, x)| fit(v, x)),
@@ -437,7 +443,7 @@ fn through<const SAT: bool>(
 /// The sections `secs` over samples already fitted to the data word, in place, block
 /// by block; section groups as equal in size as possible pass each block between two
 /// buffers.
-fn blocks<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
+fn blocks<F: Arith>(
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
@@ -455,7 +461,7 @@ fn blocks<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, co
             // The first ns % groups groups take one section more.
             let size = ns / groups + usize::from(g < ns % groups);
             let (secs, state) = (&secs[k..k + size], &mut state[k..k + size]);
-            group::<SAT, EVEN, EF, DF2T, WIDE>(size, p, secs, state, (a, b), count);
+            group::<F>(size, p, secs, state, (a, b), count);
             std::mem::swap(&mut a, &mut b);
             k += size;
         }
@@ -469,14 +475,7 @@ fn blocks<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, co
 /// signature; only [`build`] hands it out, and only for an [`Isa`] found by run-time
 /// detection.
 #[cfg(target_arch = "x86_64")]
-fn wavefront_checked<
-    const SAT: bool,
-    const EVEN: bool,
-    const EF: u32,
-    const DF2T: bool,
-    const WIDE: bool,
-    const AVX512: bool,
->(
+fn wavefront_checked<F: Arith, const AVX512: bool>(
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
@@ -487,23 +486,21 @@ fn wavefront_checked<
     // `AVX512` (above).
     unsafe {
         if AVX512 {
-            wavefront::run_avx512::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch)
+            wavefront::run_avx512::<F>(p, secs, state, io, scratch)
         } else {
-            wavefront::run::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, io, scratch)
+            wavefront::run::<F>(p, secs, state, io, scratch)
         }
     }
 }
 
 /// The scalar kernel, or the wavefront on AVX2 (with 32 registers on AVX-512).
-fn build<const SAT: bool, const EVEN: bool, const EF: u32, const DF2T: bool, const WIDE: bool>(
-    isa: Isa,
-) -> Kernel {
+fn build<F: Arith>(isa: Isa) -> Kernel {
     match isa {
         #[cfg(target_arch = "x86_64")]
-        Isa::Avx2 => wavefront_checked::<SAT, EVEN, EF, DF2T, WIDE, false>,
+        Isa::Avx2 => wavefront_checked::<F, false>,
         #[cfg(target_arch = "x86_64")]
-        Isa::Avx512 => wavefront_checked::<SAT, EVEN, EF, DF2T, WIDE, true>,
-        _ => run::<SAT, EVEN, EF, DF2T, WIDE>,
+        Isa::Avx512 => wavefront_checked::<F, true>,
+        _ => run::<F>,
     }
 }
 
@@ -539,10 +536,10 @@ impl Choice {
 
     fn structure<const SAT: bool, const EVEN: bool, const WIDE: bool>(self, isa: Isa) -> Kernel {
         match (self.structure, self.error_feedback) {
-            (Structure::Df1, 0) => build::<SAT, EVEN, 0, false, WIDE>(isa),
-            (Structure::Df1, 1) => build::<SAT, EVEN, 1, false, WIDE>(isa),
-            (Structure::Df1, _) => build::<SAT, EVEN, 2, false, WIDE>(isa),
-            (Structure::Df2t, _) => build::<SAT, EVEN, 0, true, WIDE>(isa),
+            (Structure::Df1, 0) => build::<Flags<SAT, EVEN, 0, false, WIDE>>(isa),
+            (Structure::Df1, 1) => build::<Flags<SAT, EVEN, 1, false, WIDE>>(isa),
+            (Structure::Df1, _) => build::<Flags<SAT, EVEN, 2, false, WIDE>>(isa),
+            (Structure::Df2t, _) => build::<Flags<SAT, EVEN, 0, true, WIDE>>(isa),
         }
     }
 }

@@ -11,7 +11,7 @@
 //! unmarked one has done only fits that are the identity, so both paths agree bit
 //! for bit (tests/fixed_point.rs compares them with the literal arithmetic).
 
-use super::{blocks, through, Channel, Params, SectionCoefs};
+use super::{blocks, through, Arith, Channel, Params, SectionCoefs};
 use std::arch::x86_64::{
     __m256i, _mm256_add_epi64, _mm256_alignr_epi64, _mm256_and_si256, _mm256_blend_epi32,
     _mm256_blendv_epi8, _mm256_castsi256_pd, _mm256_cmpgt_epi64, _mm256_extract_epi64,
@@ -37,13 +37,7 @@ const SHORT: usize = 64;
 /// The cascade over channel `ch` of an `n`-channel buffer, pass by pass and wave by
 /// wave; returns the overflow events (only the scalar path meets any).
 #[target_feature(enable = "avx2")]
-pub(super) fn run<
-    const SAT: bool,
-    const EVEN: bool,
-    const EF: u32,
-    const DF2T: bool,
-    const WIDE: bool,
->(
+pub(super) fn run<F: Arith>(
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
@@ -51,20 +45,13 @@ pub(super) fn run<
     scratch: &mut [i64],
 ) -> u64 {
     // SAFETY: this function has AVX2, all the body needs without `X512`.
-    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE, false>(p, secs, state, io, scratch) }
+    unsafe { run_body::<F, false>(p, secs, state, io, scratch) }
 }
 
 /// The body of [`run`] and [`run_avx512`], inlined into each; `X512` when compiled
 /// with AVX-512F and VL.
 #[inline(always)]
-unsafe fn run_body<
-    const SAT: bool,
-    const EVEN: bool,
-    const EF: u32,
-    const DF2T: bool,
-    const WIDE: bool,
-    const X512: bool,
->(
+unsafe fn run_body<F: Arith, const X512: bool>(
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
@@ -74,7 +61,7 @@ unsafe fn run_body<
     let (buf, before) = scratch[..2 * PASS].split_at_mut(PASS);
     let ns = secs.len();
     let waves = ns.div_ceil(WAVE);
-    through::<SAT>(
+    through::<F>(
         p,
         io,
         buf,
@@ -84,7 +71,7 @@ unsafe fn run_body<
         |buf, count| {
             let m = buf.len();
             if m < SHORT {
-                blocks::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, buf, count);
+                blocks::<F>(p, secs, state, buf, count);
                 return;
             }
             let before = &mut before[..m];
@@ -97,15 +84,15 @@ unsafe fn run_body<
                     std::array::from_fn(|i| state.get(i).copied().unwrap_or_default());
                 before.copy_from_slice(buf);
                 let done = match size {
-                    4 => wave::<1, false, EVEN, EF, DF2T, WIDE, X512>(p, secs, state, buf),
-                    8 => wave::<2, false, EVEN, EF, DF2T, WIDE, X512>(p, secs, state, buf),
-                    1..=3 => wave::<1, true, EVEN, EF, DF2T, WIDE, X512>(p, secs, state, buf),
-                    _ => wave::<2, true, EVEN, EF, DF2T, WIDE, X512>(p, secs, state, buf),
+                    4 => wave::<F, 1, false, X512>(p, secs, state, buf),
+                    8 => wave::<F, 2, false, X512>(p, secs, state, buf),
+                    1..=3 => wave::<F, 1, true, X512>(p, secs, state, buf),
+                    _ => wave::<F, 2, true, X512>(p, secs, state, buf),
                 };
                 if !done {
                     state.copy_from_slice(&saved[..size]);
                     buf.copy_from_slice(before);
-                    blocks::<SAT, EVEN, EF, DF2T, WIDE>(p, secs, state, buf, count);
+                    blocks::<F>(p, secs, state, buf, count);
                 }
                 k += size;
             }
@@ -119,13 +106,7 @@ unsafe fn run_body<
 /// shift rounds (df1 nearest and floor add the rounding addend before the sample's own
 /// product), and one `valignq` moves the outputs on.
 #[target_feature(enable = "avx2,avx512f,avx512vl")]
-pub(super) fn run_avx512<
-    const SAT: bool,
-    const EVEN: bool,
-    const EF: u32,
-    const DF2T: bool,
-    const WIDE: bool,
->(
+pub(super) fn run_avx512<F: Arith>(
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
@@ -133,7 +114,7 @@ pub(super) fn run_avx512<
     scratch: &mut [i64],
 ) -> u64 {
     // SAFETY: this function has AVX2, AVX-512F and VL, all the body needs with `X512`.
-    unsafe { run_body::<SAT, EVEN, EF, DF2T, WIDE, true>(p, secs, state, io, scratch) }
+    unsafe { run_body::<F, true>(p, secs, state, io, scratch) }
 }
 
 // Every `unsafe fn` below uses AVX2 instructions: it is safe to call only from code
@@ -185,15 +166,7 @@ type States<const V: usize> = [Regs<V>; 6];
 /// `PASSING`) over the pass in `buf`, in place. Returns false, with `state` and `buf`
 /// to be restored by the caller, when a sum left its overflow-free range.
 #[inline(always)]
-unsafe fn wave<
-    const V: usize,
-    const PASSING: bool,
-    const EVEN: bool,
-    const EF: u32,
-    const DF2T: bool,
-    const WIDE: bool,
-    const X512: bool,
->(
+unsafe fn wave<F: Arith, const V: usize, const PASSING: bool, const X512: bool>(
     p: &Params,
     secs: &[SectionCoefs],
     state: &mut [[i64; 6]],
@@ -215,7 +188,7 @@ unsafe fn wave<
             load(&std::array::from_fn::<i64, 4, _>(|l| -i64::from(set(4 * v + l))))
         })
     };
-    let halve = Wave::<V>::halved::<EVEN, DF2T, X512>();
+    let halve = Wave::<V>::halved::<F, X512>();
     let addend = |k: usize| if halve { secs[k].half } else { 0 };
     let wave = Wave::<V> {
         pad,
@@ -241,13 +214,13 @@ unsafe fn wave<
         Bad::<V> { marks: _mm256_setzero_si256(), lowest: wave.fast_lo, highest: wave.fast_lo };
     let body = lanes - 1..(m - 1).max(lanes - 1);
     for t in 0..body.start {
-        wave.step::<true, PASSING, EVEN, EF, DF2T, WIDE, X512>(&mut s, &mut x, &mut bad, buf, t);
+        wave.step::<F, true, PASSING, X512>(&mut s, &mut x, &mut bad, buf, t);
     }
     for t in body.clone() {
-        wave.step::<false, PASSING, EVEN, EF, DF2T, WIDE, X512>(&mut s, &mut x, &mut bad, buf, t);
+        wave.step::<F, false, PASSING, X512>(&mut s, &mut x, &mut bad, buf, t);
     }
     for t in body.end..m + lanes - 1 {
-        wave.step::<true, PASSING, EVEN, EF, DF2T, WIDE, X512>(&mut s, &mut x, &mut bad, buf, t);
+        wave.step::<F, true, PASSING, X512>(&mut s, &mut x, &mut bad, buf, t);
     }
     for v in 0..V {
         let (lo, hi) = (wave.fast_lo[v], wave.fast_hi[v]);
@@ -266,7 +239,7 @@ unsafe fn wave<
             st[j] = a[pad + k];
         }
     }
-    if !DF2T && EF == 0 {
+    if !F::DF2T && F::EF == 0 {
         // As the scalar path: without feedback each sample shifts e1 to e2 and
         // stores e1 = 0.
         for st in state.iter_mut() {
@@ -283,15 +256,7 @@ impl<const V: usize> Wave<V> {
     /// moves every lane's output (or passed input) to the next lane. Marks `bad` (sign
     /// bit) where a sum left its range or an addition overflowed.
     #[inline(always)]
-    unsafe fn step<
-        const MASKED: bool,
-        const PASSING: bool,
-        const EVEN: bool,
-        const EF: u32,
-        const DF2T: bool,
-        const WIDE: bool,
-        const X512: bool,
-    >(
+    unsafe fn step<F: Arith, const MASKED: bool, const PASSING: bool, const X512: bool>(
         &self,
         s: &mut States<V>,
         x: &mut Regs<V>,
@@ -316,13 +281,13 @@ impl<const V: usize> Wave<V> {
             let mut marks = _mm256_setzero_si256();
             let xv = x[v];
             let y;
-            if DF2T {
-                let acc = add::<WIDE>(mul(b0[v], xv), s[0][v], &mut marks);
+            if F::DF2T {
+                let acc = add::<F>(mul(b0[v], xv), s[0][v], &mut marks);
                 self.check::<MASKED, X512>(&mut marks, bad, acc, v);
-                y = self.round::<EVEN, X512>(acc, v, false);
-                let n1 = add::<WIDE>(sub(mul(b1[v], xv), mul(a1[v], y)), s[1][v], &mut marks);
+                y = self.round::<F, X512>(acc, v, false);
+                let n1 = add::<F>(sub(mul(b1[v], xv), mul(a1[v], y)), s[1][v], &mut marks);
                 let n2 = sub(mul(b2[v], xv), mul(a2[v], y));
-                if !WIDE {
+                if !F::WIDE {
                     marks = _mm256_or_si256(marks, outside(n1, self.acc_lo, self.acc_hi));
                     marks = _mm256_or_si256(marks, outside(n2, self.acc_lo, self.acc_hi));
                 }
@@ -330,28 +295,28 @@ impl<const V: usize> Wave<V> {
                 s[1][v] = keep::<MASKED>(s[1][v], n2, active);
             } else {
                 // The sample's own product last: it waits on the previous lane.
-                let mut sum = add::<WIDE>(mul(b1[v], s[0][v]), mul(b2[v], s[1][v]), &mut marks);
-                sum = subtract::<WIDE>(sum, mul(a1[v], s[2][v]), &mut marks);
-                sum = subtract::<WIDE>(sum, mul(a2[v], s[3][v]), &mut marks);
-                match EF {
+                let mut sum = add::<F>(mul(b1[v], s[0][v]), mul(b2[v], s[1][v]), &mut marks);
+                sum = subtract::<F>(sum, mul(a1[v], s[2][v]), &mut marks);
+                sum = subtract::<F>(sum, mul(a2[v], s[3][v]), &mut marks);
+                match F::EF {
                     0 => {}
-                    1 => sum = add::<WIDE>(sum, s[4][v], &mut marks),
+                    1 => sum = add::<F>(sum, s[4][v], &mut marks),
                     _ => {
                         // |e| ≤ 2^r: 2·e1 − e2 is exact.
                         let fb = sub(_mm256_add_epi64(s[4][v], s[4][v]), s[5][v]);
-                        sum = add::<WIDE>(sum, fb, &mut marks);
+                        sum = add::<F>(sum, fb, &mut marks);
                     }
                 }
-                let halve = Self::halved::<EVEN, DF2T, X512>();
+                let halve = Self::halved::<F, X512>();
                 if halve {
                     // The addend before the sample's product, off its path.
-                    sum = add::<WIDE>(sum, self.addend[v], &mut marks);
+                    sum = add::<F>(sum, self.addend[v], &mut marks);
                 }
-                sum = add::<WIDE>(sum, mul(b0[v], xv), &mut marks);
+                sum = add::<F>(sum, mul(b0[v], xv), &mut marks);
                 self.check::<MASKED, X512>(&mut marks, bad, sum, v);
-                y = self.round::<EVEN, X512>(sum, v, halve);
+                y = self.round::<F, X512>(sum, v, halve);
                 let mut next = [xv, s[0][v], y, s[2][v], s[4][v], s[5][v]];
-                if EF > 0 {
+                if F::EF > 0 {
                     let sum = if halve { sub(sum, self.addend[v]) } else { sum };
                     next[4] = sub(sum, _mm256_sllv_epi64(y, self.r[v]));
                     next[5] = s[4][v];
@@ -413,8 +378,8 @@ impl<const V: usize> Wave<V> {
     /// Whether a df1 step adds the rounding addend before the sample's product and
     /// rounds with an arithmetic shift (nearest and floor where AVX-512 has one).
     #[inline(always)]
-    fn halved<const EVEN: bool, const DF2T: bool, const X512: bool>() -> bool {
-        X512 && !EVEN && !DF2T
+    fn halved<F: Arith, const X512: bool>() -> bool {
+        X512 && !F::EVEN && !F::DF2T
     }
 
     /// round_r of lane `v`'s sums (which already hold the addend when `halved`).
@@ -424,7 +389,7 @@ impl<const V: usize> Wave<V> {
     /// shift as 2^(D−1). Nearest and floor add their addend first; even rounds the
     /// dropped bits apart. Lanes outside the fast range get values nobody keeps.
     #[inline(always)]
-    unsafe fn round<const EVEN: bool, const X512: bool>(
+    unsafe fn round<F: Arith, const X512: bool>(
         &self,
         sum: __m256i,
         v: usize,
@@ -439,7 +404,7 @@ impl<const V: usize> Wave<V> {
         };
         if halved {
             floor(sum)
-        } else if EVEN {
+        } else if F::EVEN {
             let q = floor(if X512 { sum } else { sub(sum, self.fast_lo[v]) });
             let odd = _mm256_and_si256(q, _mm256_set1_epi64x(1));
             let dropped = _mm256_add_epi64(_mm256_and_si256(sum, self.mask[v]), odd);
@@ -487,11 +452,11 @@ unsafe fn sub(a: __m256i, b: __m256i) -> __m256i {
     _mm256_sub_epi64(a, b)
 }
 
-/// a + b; with `WIDE` the sign bit of `marks` is set where it overflowed.
+/// a + b; with `F::WIDE` the sign bit of `marks` is set where it overflowed.
 #[inline(always)]
-unsafe fn add<const WIDE: bool>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __m256i {
+unsafe fn add<F: Arith>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __m256i {
     let r = _mm256_add_epi64(a, b);
-    if WIDE {
+    if F::WIDE {
         // Overflow: a and b of one sign, r of the other.
         let o = _mm256_and_si256(_mm256_xor_si256(a, r), _mm256_xor_si256(b, r));
         *marks = _mm256_or_si256(*marks, o);
@@ -499,11 +464,11 @@ unsafe fn add<const WIDE: bool>(a: __m256i, b: __m256i, marks: &mut __m256i) -> 
     r
 }
 
-/// a − b; with `WIDE` the sign bit of `marks` is set where it overflowed.
+/// a − b; with `F::WIDE` the sign bit of `marks` is set where it overflowed.
 #[inline(always)]
-unsafe fn subtract<const WIDE: bool>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __m256i {
+unsafe fn subtract<F: Arith>(a: __m256i, b: __m256i, marks: &mut __m256i) -> __m256i {
     let r = _mm256_sub_epi64(a, b);
-    if WIDE {
+    if F::WIDE {
         // Overflow: a and b of different signs, r of b's sign.
         let o = _mm256_and_si256(_mm256_xor_si256(a, b), _mm256_xor_si256(a, r));
         *marks = _mm256_or_si256(*marks, o);
@@ -521,6 +486,9 @@ unsafe fn outside(v: __m256i, lo: __m256i, hi: __m256i) -> __m256i {
 mod tests {
     use super::*;
     use crate::audio::dither::SplitMix64;
+
+    /// Wrapping q31 with a checked 64-bit accumulator.
+    type Wide = super::super::Flags<false, false, 0, false, true>;
 
     /// The overflow marks of the 64-bit sums, which only a sum that wraps back into
     /// the fast range would otherwise let through, against `i64::checked_add` and
@@ -567,8 +535,8 @@ mod tests {
         let (mut plus, mut minus) = (_mm256_setzero_si256(), _mm256_setzero_si256());
         // SAFETY: this function has AVX2.
         unsafe {
-            add::<true>(a, b, &mut plus);
-            subtract::<true>(a, b, &mut minus);
+            add::<Wide>(a, b, &mut plus);
+            subtract::<Wide>(a, b, &mut minus);
         }
         (lanes(plus), lanes(minus))
     }
