@@ -93,11 +93,6 @@ pub(super) fn run(stages: Stages<'_>, progress: &(dyn Fn(u64) + Sync)) -> Result
         let [run_target, run_reference, finish_target, finish_reference, compare, read] =
             &mut results;
         let (mut signal_power, mut error_power) = (0.0, 0.0);
-        // The samples of channel 0 that the tone meters take from a block.
-        let channel0 = |x: &[f64], first_frame: u64| {
-            let skip = settle.saturating_sub(first_frame) as usize;
-            x.iter().step_by(channels).skip(skip).copied().collect::<Vec<_>>()
-        };
         let Block { first_frame, input, target: run_out, reference: reference_run, .. } =
             &mut current;
         let (first_frame, input) = (*first_frame, &*input);
@@ -120,7 +115,7 @@ pub(super) fn run(stages: Stages<'_>, progress: &(dyn Fn(u64) + Sync)) -> Result
                 s.spawn(move |_| {
                     levels.add(input);
                     if let Some(t) = tone {
-                        t.add(channel0(input, first_frame));
+                        t.add(tone_samples(input, channels, settle, first_frame));
                     }
                     if let Some(e) = engine {
                         *run_reference = e.process_from(input, reference_run);
@@ -132,7 +127,7 @@ pub(super) fn run(stages: Stages<'_>, progress: &(dyn Fn(u64) + Sync)) -> Result
                 s.spawn(move |_| {
                     levels.add(target_done);
                     if let Some(t) = tone {
-                        t.add(channel0(target_done, finished_from));
+                        t.add(tone_samples(target_done, channels, settle, finished_from));
                     }
                     *finish_target = out.write_block(target_done);
                 });
@@ -172,6 +167,18 @@ pub(super) fn run(stages: Stages<'_>, progress: &(dyn Fn(u64) + Sync)) -> Result
             progress(totals.frames);
         }
     }
+}
+
+/// The samples of channel 0 of `block` (of `channels`, starting at frame
+/// `first_frame`) that a tone meter takes: those from frame `settle` on.
+fn tone_samples(
+    block: &[f64],
+    channels: usize,
+    settle: u64,
+    first_frame: u64,
+) -> impl Iterator<Item = f64> + '_ {
+    let skip = settle.saturating_sub(first_frame) as usize;
+    block.iter().step_by(channels).skip(skip).copied()
 }
 
 /// Σ x², in eight running sums so the loop vectorises.
