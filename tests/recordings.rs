@@ -210,6 +210,10 @@ fn streamed_outputs_equal_one_pass_of_the_engines_over_the_whole_file() {
     let gain = 10f64.powf(40.0 / 20.0);
     let want_residual: Vec<f64> =
         want_fixed.iter().zip(&want_float).map(|(q, f)| (q - f) * gain).collect();
+    // The SNR summed block by block in lanes, against the plain sums over the file.
+    let snr = report.snr_vs_float_db.unwrap();
+    let want_snr = tonewright::audio::metrics::snr_db(&want_fixed, &want_float).unwrap();
+    assert!((snr - want_snr).abs() < 1e-9, "SNR {snr} dB, one pass {want_snr} dB");
     for (file, want) in [("q.wav", want_fixed), ("f.wav", want_float), ("r.wav", want_residual)] {
         let (_, got) = read_wav(&dir.join(file));
         let want: Vec<f64> = want.iter().map(|&v| f64::from(v as f32)).collect();

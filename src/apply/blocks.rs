@@ -133,20 +133,20 @@ pub(super) fn run(stages: Stages<'_>, progress: &(dyn Fn(u64) + Sync)) -> Result
                 });
             }
             if ran && compared {
-                let (out, power) = (&mut reference_out, &mut signal_power);
+                if let Some(w) = &mut reference_out {
+                    s.spawn(move |_| *finish_reference = w.write_block(reference_done));
+                }
+                let (out, signal, error) = (&mut residual_out, &mut signal_power, &mut error_power);
                 s.spawn(move |_| {
-                    *power = energy(reference_done);
+                    (*signal, *error) = powers(target_done, reference_done);
                     if let Some(w) = out {
-                        *finish_reference = w.write_block(reference_done);
-                    }
-                });
-                let (out, power) = (&mut residual_out, &mut error_power);
-                s.spawn(move |_| {
-                    residual.clear();
-                    residual.extend(target_done.iter().zip(reference_done).map(|(t, r)| t - r));
-                    *power = energy(residual);
-                    if let Some(w) = out {
-                        residual.iter_mut().for_each(|e| *e *= residual_gain);
+                        residual.clear();
+                        residual.extend(
+                            target_done
+                                .iter()
+                                .zip(reference_done)
+                                .map(|(t, r)| (t - r) * residual_gain),
+                        );
                         *compare = w.write_block(residual);
                     }
                 });
@@ -181,14 +181,21 @@ fn tone_samples(
     block.iter().step_by(channels).skip(skip).copied()
 }
 
-/// Σ x², in eight running sums so the loop vectorises.
-fn energy(x: &[f64]) -> f64 {
-    let (runs, rest) = x.as_chunks::<8>();
-    let mut lanes = [0.0; 8];
-    for run in runs {
-        for (l, v) in lanes.iter_mut().zip(run) {
-            *l += v * v;
+/// Σ r² of the reference and Σ (t − r)² of the target's error, each in eight running
+/// sums so the loop vectorises; one pass over both blocks.
+fn powers(target: &[f64], reference: &[f64]) -> (f64, f64) {
+    let (t_runs, t_rest) = target.as_chunks::<8>();
+    let (r_runs, r_rest) = reference.as_chunks::<8>();
+    let (mut signal, mut error) = ([0.0; 8], [0.0; 8]);
+    for (t, r) in t_runs.iter().zip(r_runs) {
+        for l in 0..8 {
+            signal[l] += r[l] * r[l];
+            let e = t[l] - r[l];
+            error[l] += e * e;
         }
     }
-    lanes.iter().sum::<f64>() + rest.iter().map(|v| v * v).sum::<f64>()
+    let rest = t_rest.iter().zip(r_rest);
+    let signal_rest: f64 = r_rest.iter().map(|r| r * r).sum();
+    let error_rest: f64 = rest.map(|(t, r)| (t - r) * (t - r)).sum();
+    (signal.iter().sum::<f64>() + signal_rest, error.iter().sum::<f64>() + error_rest)
 }

@@ -9,6 +9,9 @@ pub struct SampleScale {
     bits: u32,
     /// 2^(data_bits−1): one full scale in LSB.
     full_scale: f64,
+    /// 2^−(data_bits−1): one LSB in full scales, so going back is a product (exact, as
+    /// the scale is a power of two) instead of a division.
+    lsb: f64,
 }
 
 impl SampleScale {
@@ -22,7 +25,8 @@ impl SampleScale {
                 "target.fixed.data_bits: {data_bits} must be between 2 and 32"
             )));
         }
-        Ok(Self { bits: data_bits, full_scale: 2f64.powi(data_bits as i32 - 1) })
+        let full_scale = 2f64.powi(data_bits as i32 - 1);
+        Ok(Self { bits: data_bits, full_scale, lsb: 1.0 / full_scale })
     }
 
     /// The word length, bits.
@@ -42,7 +46,7 @@ impl SampleScale {
 
     /// One LSB as a fraction of full scale, 2^−(data_bits−1).
     pub fn lsb(&self) -> f64 {
-        1.0 / self.full_scale
+        self.lsb
     }
 
     /// A fraction of full scale to the nearest sample (ties to even), saturated to the
@@ -68,7 +72,7 @@ impl SampleScale {
     /// A sample as a fraction of full scale.
     #[inline]
     pub fn to_f64(&self, v: i32) -> f64 {
-        f64::from(v) / self.full_scale
+        f64::from(v) * self.lsb
     }
 }
 
