@@ -61,10 +61,10 @@ mod wavefront;
 /// i64 directly; with A = 64 each sum is formed in i64 with overflow detection and only
 /// a sum that overflowed is formed again in i128. The cascade runs block by block with
 /// groups of sections holding their states in registers, or on AVX2 as a wavefront
-/// over the sections (`wavefront.rs`); results are the same for any block size,
-/// channel count and instruction set (tests/fixed_point.rs compares every format,
-/// rounding, overflow and structure with a literal i128 evaluation of the arithmetic
-/// above).
+/// over the sections (`wavefront.rs`), channels in pairs; results are the same for any
+/// block size, channel count and instruction set (tests/fixed_point.rs compares every
+/// format, rounding, overflow and structure with a literal i128 evaluation of the
+/// arithmetic above).
 #[derive(Debug, Clone)]
 pub struct FixedEngine {
     channels: usize,
@@ -74,9 +74,9 @@ pub struct FixedEngine {
     state: Vec<[i64; 6]>,
     overflows: u64,
     choice: Choice,
-    /// The instruction set of `kernel` (set only after run-time detection).
+    /// The instruction set of `kernels` (set only after run-time detection).
     isa: Isa,
-    kernel: Kernel,
+    kernels: Kernels,
     /// The kernels' buffers.
     scratch: Vec<i64>,
 }
@@ -140,20 +140,30 @@ struct SectionCoefs {
     fast_span: u64,
 }
 
-/// A specialised loop over one channel of an interleaved buffer; returns overflows.
-/// Its last argument is the engine's scratch space of [`SCRATCH`] values, kept so that
-/// processing never allocates or clears large buffers.
-type Kernel = fn(&Params, &[SectionCoefs], &mut [[i64; 6]], Channel<'_>, &mut [i64]) -> u64;
+/// A specialised loop over `C` adjacent channels of an interleaved buffer, given their
+/// states; returns overflows. Its last argument is the engine's scratch space of
+/// [`SCRATCH`] values, kept so that processing never allocates or clears large buffers.
+type Kernel<const C: usize> =
+    fn(&Params, &[SectionCoefs], [&mut [[i64; 6]]; C], Channels<'_>, &mut [i64]) -> u64;
 
-/// What a kernel runs over: channel `ch` of the `n`-channel `samples`.
-struct Channel<'a> {
+/// The kernels of one format: a single channel, and a pair of adjacent channels run
+/// side by side (two independent recursions, which the processor overlaps).
+#[derive(Debug, Clone, Copy)]
+struct Kernels {
+    one: Kernel<1>,
+    two: Kernel<2>,
+}
+
+/// What a kernel runs over: channels `ch`, `ch + 1`, … (as many as the kernel takes)
+/// of the `n`-channel `samples`.
+struct Channels<'a> {
     samples: &'a mut [i32],
     ch: usize,
     n: usize,
 }
 
-/// Scratch values per engine: two passes of the wavefront.
-const SCRATCH: usize = 4096;
+/// Scratch values per engine: two passes of the wavefront for each of two channels.
+const SCRATCH: usize = 8192;
 
 /// Frames of all channels processed before moving on (8 KiB of stereo q15 data, in
 /// i32): two passes of the wavefront.
@@ -384,57 +394,83 @@ fn exact<F: Arith>(
     }
 }
 
-/// The cascade over one channel, block by block.
-fn run<F: Arith>(
+/// The cascade over `C` channels, block by block, one channel after the other.
+fn run<F: Arith, const C: usize>(
     p: &Params,
     secs: &[SectionCoefs],
-    state: &mut [[i64; 6]],
-    io: Channel<'_>,
+    mut states: [&mut [[i64; 6]]; C],
+    io: Channels<'_>,
     scratch: &mut [i64],
 ) -> u64 {
-    through::<F>(p, io, &mut scratch[..BLOCK], |buf, count| {
-        blocks::<F>(p, secs, state, buf, count);
+    through::<F, C>(p, io, split(scratch, BLOCK), |bufs, count| {
+        for (buf, state) in bufs.into_iter().zip(states.each_mut()) {
+            blocks::<F>(p, secs, state, buf, count);
+        }
     })
 }
 
-/// The samples of `io`'s channel, `buf.len()` frames at a time: fitted to the data word
-/// into `buf`, processed there by `f` (which adds its overflow events to the count),
-/// and written back. Returns the overflow events.
+/// The first `C` runs of `len` values of `scratch`.
+fn split<const C: usize>(scratch: &mut [i64], len: usize) -> [&mut [i64]; C] {
+    let mut rest = scratch;
+    std::array::from_fn(|_| {
+        let (run, after) = std::mem::take(&mut rest).split_at_mut(len);
+        rest = after;
+        run
+    })
+}
+
+/// The samples of `io`'s `C` channels, `len` frames at a time (the length of each of
+/// `bufs`): fitted to the data word into one buffer per channel, processed there by `f`
+/// (which adds its overflow events to the count), and written back. Returns the
+/// overflow events.
 #[inline(always)]
-fn through<F: Arith>(
+fn through<F: Arith, const C: usize>(
     p: &Params,
-    io: Channel<'_>,
-    buf: &mut [i64],
-    mut f: impl FnMut(&mut [i64], &mut u64),
+    io: Channels<'_>,
+    mut bufs: [&mut [i64]; C],
+    mut f: impl FnMut([&mut [i64]; C], &mut u64),
 ) -> u64 {
-    let Channel { samples, ch, n } = io;
+    let Channels { samples, ch, n } = io;
+    let len = bufs[0].len();
     let mut count = 0;
-    for chunk in samples.chunks_mut(buf.len() * n) {
-        let buf = &mut buf[..chunk.len() / n];
+    for chunk in samples.chunks_mut(len * n) {
+        let frames = chunk.len() / n;
+        let mut bufs = bufs.each_mut().map(|b| &mut b[..frames]);
         // A local count: the one `f` is also handed would be kept in memory, a store
         // and a load on every sample.
         let mut fits = 0;
-        let mut fit = |v: &mut i64, x: &i32| *v = fit_data::<F>(i64::from(*x), p, &mut fits);
-        // Mono and each channel of stereo with a constant index, so the loops vectorise.
-        match (n, ch) {
-            (1, _) => buf.iter_mut().zip(&*chunk).for_each(|(v, x)| fit(v, x)),
-            (2, 0) => buf.iter_mut().zip(chunk.as_chunks::<2>().0).for_each(|(v, f)| fit(v, &f[0])),
-            (2, _) => buf.iter_mut().zip(chunk.as_chunks::<2>().0).for_each(|(v, f)| fit(v, &f[1])),
-            _ => buf.iter_mut().zip(chunk.chunks_exact(n)).for_each(|(v, f)| fit(v, &f[ch])),
+        let mut fit = |x: i32| fit_data::<F>(i64::from(x), p, &mut fits);
+        // When the kernel takes every channel (mono, or stereo as a pair), frames of a
+        // constant size, so the loops vectorise. Indices below `frames`, the length of
+        // every buffer, need no bounds checks.
+        if n == C {
+            for (f, i) in chunk.as_chunks::<C>().0.iter().zip(0..frames) {
+                for c in 0..C {
+                    bufs[c][i] = fit(f[c]);
+                }
+            }
+        } else {
+            for (f, i) in chunk.chunks_exact(n).zip(0..frames) {
+                for c in 0..C {
+                    bufs[c][i] = fit(f[ch + c]);
+                }
+            }
         }
         count += fits;
-        f(buf, &mut count);
+        f(bufs.each_mut().map(|b| &mut **b), &mut count);
         // Every value fits the data word, which is at most 32 bits wide.
-        let frames = buf.iter().map(|&v| v as i32);
-        match (n, ch) {
-            (1, _) => chunk.iter_mut().zip(frames).for_each(|(x, v)| *x = v),
-            (2, 0) => {
-                chunk.as_chunks_mut::<2>().0.iter_mut().zip(frames).for_each(|(f, v)| f[0] = v)
+        if n == C {
+            for (f, i) in chunk.as_chunks_mut::<C>().0.iter_mut().zip(0..frames) {
+                for c in 0..C {
+                    f[c] = bufs[c][i] as i32;
+                }
             }
-            (2, _) => {
-                chunk.as_chunks_mut::<2>().0.iter_mut().zip(frames).for_each(|(f, v)| f[1] = v)
+        } else {
+            for (f, i) in chunk.chunks_exact_mut(n).zip(0..frames) {
+                for c in 0..C {
+                    f[ch + c] = bufs[c][i] as i32;
+                }
             }
-            _ => chunk.chunks_exact_mut(n).zip(frames).for_each(|(f, v)| f[ch] = v),
         }
     }
     count
@@ -475,32 +511,32 @@ fn blocks<F: Arith>(
 /// signature; only [`build`] hands it out, and only for an [`Isa`] found by run-time
 /// detection.
 #[cfg(target_arch = "x86_64")]
-fn wavefront_checked<F: Arith, const AVX512: bool>(
+fn wavefront_checked<F: Arith, const AVX512: bool, const C: usize>(
     p: &Params,
     secs: &[SectionCoefs],
-    state: &mut [[i64; 6]],
-    io: Channel<'_>,
+    states: [&mut [[i64; 6]]; C],
+    io: Channels<'_>,
     scratch: &mut [i64],
 ) -> u64 {
     // SAFETY: reachable only when the processor has AVX2, and AVX-512F and VL for
     // `AVX512` (above).
     unsafe {
         if AVX512 {
-            wavefront::run_avx512::<F>(p, secs, state, io, scratch)
+            wavefront::run_avx512::<F, C>(p, secs, states, io, scratch)
         } else {
-            wavefront::run::<F>(p, secs, state, io, scratch)
+            wavefront::run::<F, C>(p, secs, states, io, scratch)
         }
     }
 }
 
 /// The scalar kernel, or the wavefront on AVX2 (with 32 registers on AVX-512).
-fn build<F: Arith>(isa: Isa) -> Kernel {
+fn build<F: Arith, const C: usize>(isa: Isa) -> Kernel<C> {
     match isa {
         #[cfg(target_arch = "x86_64")]
-        Isa::Avx2 => wavefront_checked::<F, false>,
+        Isa::Avx2 => wavefront_checked::<F, false, C>,
         #[cfg(target_arch = "x86_64")]
-        Isa::Avx512 => wavefront_checked::<F, true>,
-        _ => run::<F>,
+        Isa::Avx512 => wavefront_checked::<F, true, C>,
+        _ => run::<F, C>,
     }
 }
 
@@ -516,30 +552,38 @@ struct Choice {
 }
 
 impl Choice {
-    /// The kernel for these choices on `isa`.
-    fn kernel(self, isa: Isa) -> Kernel {
+    /// The kernels for these choices on `isa`.
+    fn kernels(self, isa: Isa) -> Kernels {
+        Kernels { one: self.kernel(isa), two: self.kernel(isa) }
+    }
+
+    /// The kernel of `C` channels for these choices on `isa`.
+    fn kernel<const C: usize>(self, isa: Isa) -> Kernel<C> {
         match (self.sat, self.even) {
-            (true, true) => self.word::<true, true>(isa),
-            (true, false) => self.word::<true, false>(isa),
-            (false, true) => self.word::<false, true>(isa),
-            (false, false) => self.word::<false, false>(isa),
+            (true, true) => self.word::<true, true, C>(isa),
+            (true, false) => self.word::<true, false, C>(isa),
+            (false, true) => self.word::<false, true, C>(isa),
+            (false, false) => self.word::<false, false, C>(isa),
         }
     }
 
-    fn word<const SAT: bool, const EVEN: bool>(self, isa: Isa) -> Kernel {
+    fn word<const SAT: bool, const EVEN: bool, const C: usize>(self, isa: Isa) -> Kernel<C> {
         if self.wide {
-            self.structure::<SAT, EVEN, true>(isa)
+            self.structure::<SAT, EVEN, true, C>(isa)
         } else {
-            self.structure::<SAT, EVEN, false>(isa)
+            self.structure::<SAT, EVEN, false, C>(isa)
         }
     }
 
-    fn structure<const SAT: bool, const EVEN: bool, const WIDE: bool>(self, isa: Isa) -> Kernel {
+    fn structure<const SAT: bool, const EVEN: bool, const WIDE: bool, const C: usize>(
+        self,
+        isa: Isa,
+    ) -> Kernel<C> {
         match (self.structure, self.error_feedback) {
-            (Structure::Df1, 0) => build::<Flags<SAT, EVEN, 0, false, WIDE>>(isa),
-            (Structure::Df1, 1) => build::<Flags<SAT, EVEN, 1, false, WIDE>>(isa),
-            (Structure::Df1, _) => build::<Flags<SAT, EVEN, 2, false, WIDE>>(isa),
-            (Structure::Df2t, _) => build::<Flags<SAT, EVEN, 0, true, WIDE>>(isa),
+            (Structure::Df1, 0) => build::<Flags<SAT, EVEN, 0, false, WIDE>, C>(isa),
+            (Structure::Df1, 1) => build::<Flags<SAT, EVEN, 1, false, WIDE>, C>(isa),
+            (Structure::Df1, _) => build::<Flags<SAT, EVEN, 2, false, WIDE>, C>(isa),
+            (Structure::Df2t, _) => build::<Flags<SAT, EVEN, 0, true, WIDE>, C>(isa),
         }
     }
 }
@@ -606,16 +650,16 @@ impl FixedEngine {
         };
         let state = vec![[0; 6]; sections.len() * channels];
         let isa = Isa::detected();
-        let kernel = choice.kernel(isa);
+        let kernels = choice.kernels(isa);
         let scratch = vec![0; SCRATCH];
-        Ok(Self { channels, params, sections, state, overflows: 0, choice, isa, kernel, scratch })
+        Ok(Self { channels, params, sections, state, overflows: 0, choice, isa, kernels, scratch })
     }
 
     /// The same engine with the scalar kernel only, even where AVX2 is available. The
     /// output and overflow count are identical; only the speed differs.
     pub fn baseline(mut self) -> Self {
         self.isa = Isa::Baseline;
-        self.kernel = self.choice.kernel(self.isa);
+        self.kernels = self.choice.kernels(self.isa);
         self
     }
 
@@ -623,7 +667,7 @@ impl FixedEngine {
     /// output and overflow count are identical; only the speed differs.
     pub fn without_avx512(mut self) -> Self {
         self.isa = self.isa.min(Isa::Avx2);
-        self.kernel = self.choice.kernel(self.isa);
+        self.kernels = self.choice.kernels(self.isa);
         self
     }
 
@@ -652,18 +696,19 @@ impl Engine for FixedEngine {
     fn process(&mut self, frames: &mut [i32]) -> Result<()> {
         check_frames(frames.len(), self.channels)?;
         let (ns, n) = (self.sections.len(), self.channels);
+        let (p, secs, kernels) = (&self.params, &self.sections[..], self.kernels);
         // Every channel of a stretch while it is in the first-level cache, rather than
-        // each channel through the whole buffer.
+        // each channel through the whole buffer; channels in pairs, an odd one alone.
         for stretch in frames.chunks_mut(STRETCH * n) {
-            for ch in 0..n {
-                let state = &mut self.state[ch * ns..(ch + 1) * ns];
-                self.overflows += (self.kernel)(
-                    &self.params,
-                    &self.sections,
-                    state,
-                    Channel { samples: stretch, ch, n },
-                    &mut self.scratch,
-                );
+            for ch in (0..n).step_by(2) {
+                let io = Channels { samples: &mut *stretch, ch, n };
+                let states = &mut self.state[ch * ns..];
+                self.overflows += if ch + 1 < n {
+                    let (a, b) = states.split_at_mut(ns);
+                    (kernels.two)(p, secs, [a, &mut b[..ns]], io, &mut self.scratch)
+                } else {
+                    (kernels.one)(p, secs, [&mut states[..ns]], io, &mut self.scratch)
+                };
             }
         }
         Ok(())

@@ -1,5 +1,5 @@
-//! The fixed-point fast path of one channel as an AVX2 wavefront: one section per
-//! 64-bit lane.
+//! The fixed-point fast path of one channel, or of a pair of channels side by side,
+//! as an AVX2 wavefront: one section per 64-bit lane.
 //!
 //! The schedule of the float wavefront (lane k holds section k and runs sample t − k
 //! at step t; H. T. Kung, "Why systolic architectures?", IEEE Computer 15(1), 1982)
@@ -10,21 +10,29 @@
 //! run again from its saved states and input by the scalar path, which is exact; an
 //! unmarked one has done only fits that are the identity, so both paths agree bit
 //! for bit (tests/fixed_point.rs compares them with the literal arithmetic).
+//!
+//! One channel's wave is one chain of dependent steps: each lane waits on the
+//! previous lane's output of the step before (a multiply, an add and a shift), so the
+//! processor idles on latency. A pair of channels runs two chains in the same step
+//! loop, which the out-of-order core overlaps; each channel keeps its own marks, and
+//! only a marked channel's wave is redone. On 8 q15 sections this took stereo from
+//! about 1.4 to 1.7 G section-samples/s and 8 channels from 1.2 to 1.8 (AVX-512
+//! build, benches/engines.rs).
 
-use super::{blocks, through, Arith, Channel, Params, SectionCoefs};
+use super::{blocks, split, through, Arith, Channels, Params, SectionCoefs};
 use std::arch::x86_64::{
     __m256i, _mm256_add_epi64, _mm256_alignr_epi64, _mm256_and_si256, _mm256_blend_epi32,
     _mm256_blendv_epi8, _mm256_castsi256_pd, _mm256_cmpgt_epi64, _mm256_extract_epi64,
-    _mm256_loadu_si256, _mm256_max_epi64, _mm256_min_epi64, _mm256_movemask_pd, _mm256_mul_epi32,
-    _mm256_or_si256, _mm256_permute4x64_epi64, _mm256_set1_epi64x, _mm256_setzero_si256,
-    _mm256_sllv_epi64, _mm256_srav_epi64, _mm256_srlv_epi64, _mm256_storeu_si256, _mm256_sub_epi64,
-    _mm256_xor_si256,
+    _mm256_loadu_si256, _mm256_movemask_pd, _mm256_mul_epi32, _mm256_or_si256,
+    _mm256_permute4x64_epi64, _mm256_set1_epi64x, _mm256_setzero_si256, _mm256_sllv_epi64,
+    _mm256_srav_epi64, _mm256_srlv_epi64, _mm256_storeu_si256, _mm256_sub_epi64,
+    _mm256_testz_si256, _mm256_xor_si256,
 };
 
 /// Frames per pass: a marked wave redoes one pass; the 2 (lanes − 1) masked steps that
 /// fill and drain it are under 3 % of the steps for 8 sections.
 const PASS: usize = 2048;
-const _: () = assert!(2 * PASS <= super::SCRATCH, "two passes fit the engine's scratch");
+const _: () = assert!(4 * PASS <= super::SCRATCH, "two passes of two channels fit the scratch");
 
 /// Sections per wave: two registers of four 64-bit lanes per state.
 const WAVE: usize = 8;
@@ -34,65 +42,75 @@ const WAVE: usize = 8;
 /// one frame at a time).
 const SHORT: usize = 64;
 
-/// The cascade over channel `ch` of an `n`-channel buffer, pass by pass and wave by
-/// wave; returns the overflow events (only the scalar path meets any).
+/// The cascade over `C` adjacent channels (one, or a pair) of an `n`-channel buffer,
+/// pass by pass and wave by wave, the channels' waves side by side; returns the
+/// overflow events (only the scalar path meets any).
 #[target_feature(enable = "avx2")]
-pub(super) fn run<F: Arith>(
+pub(super) fn run<F: Arith, const C: usize>(
     p: &Params,
     secs: &[SectionCoefs],
-    state: &mut [[i64; 6]],
-    io: Channel<'_>,
+    states: [&mut [[i64; 6]]; C],
+    io: Channels<'_>,
     scratch: &mut [i64],
 ) -> u64 {
     // SAFETY: this function has AVX2, all the body needs without `X512`.
-    unsafe { run_body::<F, false>(p, secs, state, io, scratch) }
+    unsafe { run_body::<F, false, C>(p, secs, states, io, scratch) }
 }
 
 /// The body of [`run`] and [`run_avx512`], inlined into each; `X512` when compiled
 /// with AVX-512F and VL.
 #[inline(always)]
-unsafe fn run_body<F: Arith, const X512: bool>(
+unsafe fn run_body<F: Arith, const X512: bool, const C: usize>(
     p: &Params,
     secs: &[SectionCoefs],
-    state: &mut [[i64; 6]],
-    io: Channel<'_>,
+    mut states: [&mut [[i64; 6]]; C],
+    io: Channels<'_>,
     scratch: &mut [i64],
 ) -> u64 {
-    let (buf, before) = scratch[..2 * PASS].split_at_mut(PASS);
+    let (bufs, before) = scratch[..2 * C * PASS].split_at_mut(C * PASS);
+    let mut before: [&mut [i64]; C] = split(before, PASS);
     let ns = secs.len();
     let waves = ns.div_ceil(WAVE);
-    through::<F>(
+    through::<F, C>(
         p,
         io,
-        buf,
+        split(bufs, PASS),
         // Inlined so the waves compile in the caller's instruction set, not the
         // closure's own (baseline) one.
         #[inline(always)]
-        |buf, count| {
-            let m = buf.len();
+        |mut bufs, count| {
+            let m = bufs[0].len();
             if m < SHORT {
-                blocks::<F>(p, secs, state, buf, count);
+                for (buf, state) in bufs.into_iter().zip(states.each_mut()) {
+                    blocks::<F>(p, secs, state, buf, count);
+                }
                 return;
             }
-            let before = &mut before[..m];
             let mut k = 0;
             for w in 0..waves {
                 // The first ns % waves waves take one section more.
                 let size = ns / waves + usize::from(w < ns % waves);
-                let (secs, state) = (&secs[k..k + size], &mut state[k..k + size]);
-                let saved: [[i64; 6]; WAVE] =
-                    std::array::from_fn(|i| state.get(i).copied().unwrap_or_default());
-                before.copy_from_slice(buf);
+                let secs = &secs[k..k + size];
+                let mut states = states.each_mut().map(|s| &mut s[k..k + size]);
+                let saved: [[[i64; 6]; WAVE]; C] = std::array::from_fn(|c| {
+                    std::array::from_fn(|i| states[c].get(i).copied().unwrap_or_default())
+                });
+                for (before, buf) in before.iter_mut().zip(&bufs) {
+                    before[..m].copy_from_slice(buf);
+                }
+                let (st, io) =
+                    (states.each_mut().map(|s| &mut **s), bufs.each_mut().map(|b| &mut **b));
                 let done = match size {
-                    4 => wave::<F, 1, false, X512>(p, secs, state, buf),
-                    8 => wave::<F, 2, false, X512>(p, secs, state, buf),
-                    1..=3 => wave::<F, 1, true, X512>(p, secs, state, buf),
-                    _ => wave::<F, 2, true, X512>(p, secs, state, buf),
+                    4 => wave::<F, 1, false, X512, C>(p, secs, st, io),
+                    8 => wave::<F, 2, false, X512, C>(p, secs, st, io),
+                    1..=3 => wave::<F, 1, true, X512, C>(p, secs, st, io),
+                    _ => wave::<F, 2, true, X512, C>(p, secs, st, io),
                 };
-                if !done {
-                    state.copy_from_slice(&saved[..size]);
-                    buf.copy_from_slice(before);
-                    blocks::<F>(p, secs, state, buf, count);
+                // Only a marked channel is redone, from its own saved states and input.
+                for c in (0..C).filter(|&c| !done[c]) {
+                    states[c].copy_from_slice(&saved[c][..size]);
+                    bufs[c].copy_from_slice(&before[c][..m]);
+                    blocks::<F>(p, secs, states[c], bufs[c], count);
                 }
                 k += size;
             }
@@ -101,20 +119,22 @@ unsafe fn run_body<F: Arith, const X512: bool>(
 }
 
 /// [`run`] compiled where AVX-512F and VL are available: the same 256-bit code, which
-/// then has 32 vector registers instead of 16 for the states and constants of a wave,
-/// and two shorter steps on the path from one lane to the next: an arithmetic 64-bit
-/// shift rounds (df1 nearest and floor add the rounding addend before the sample's own
-/// product), and one `valignq` moves the outputs on.
+/// then has 32 vector registers instead of 16 for the states and constants of a wave
+/// (or a pair of waves), and two shorter steps on the path from one lane to the next:
+/// an arithmetic 64-bit shift rounds (df1 nearest and floor add the rounding addend
+/// before the sample's own product), and one `valignq` moves the outputs on. The
+/// exact shift also lets the check of a step be that of its output (see
+/// [`Wave::check`]).
 #[target_feature(enable = "avx2,avx512f,avx512vl")]
-pub(super) fn run_avx512<F: Arith>(
+pub(super) fn run_avx512<F: Arith, const C: usize>(
     p: &Params,
     secs: &[SectionCoefs],
-    state: &mut [[i64; 6]],
-    io: Channel<'_>,
+    states: [&mut [[i64; 6]]; C],
+    io: Channels<'_>,
     scratch: &mut [i64],
 ) -> u64 {
     // SAFETY: this function has AVX2, AVX-512F and VL, all the body needs with `X512`.
-    unsafe { run_body::<F, true>(p, secs, state, io, scratch) }
+    unsafe { run_body::<F, true, C>(p, secs, states, io, scratch) }
 }
 
 // Every `unsafe fn` below uses AVX2 instructions: it is safe to call only from code
@@ -148,33 +168,45 @@ struct Wave<const V: usize> {
     acc_hi: __m256i,
     /// The bias after the shift: 2^(D−1) = −data_lo.
     unbias: __m256i,
+    /// D.
+    data_bits: __m256i,
 }
 
-/// What marks a wave to be redone: the sign bits of `marks` (a sum out of range in a
-/// masked step, an overflowed addition), and the lowest and highest sums per lane of
-/// the other steps (AVX-512 only; they start inside the range).
-struct Bad<const V: usize> {
+/// What marks a wave to be redone: the sign bits of `marks` (a sum out of range, an
+/// overflowed addition), and with AVX-512 the bits of every output's offset
+/// y − data_lo of the steps outside the masked ones, ORed (see [`Wave::check`]).
+struct Bad {
     marks: __m256i,
-    lowest: Regs<V>,
-    highest: Regs<V>,
+    offsets: __m256i,
 }
 
 /// States per lane: df1 x1, x2, y1, y2, e1, e2; df2t s1, s2 and four unused.
 type States<const V: usize> = [Regs<V>; 6];
 
+/// One channel's recursion through a wave: its states, each lane's next input, its
+/// marks, and its pass (input, then output, in place).
+struct Chain<'a, const V: usize> {
+    s: States<V>,
+    x: Regs<V>,
+    bad: Bad,
+    buf: &'a mut [i64],
+}
+
 /// Runs the sections `secs` (as many as the lanes of `V` registers; fewer only when
-/// `PASSING`) over the pass in `buf`, in place. Returns false, with `state` and `buf`
-/// to be restored by the caller, when a sum left its overflow-free range.
+/// `PASSING`) over the passes in `bufs` (of equal length), one channel each, in place.
+/// The channels' steps alternate: their recursions are independent, so the processor
+/// overlaps them. Returns per channel false, with its state and buffer to be restored
+/// by the caller, when one of its sums left its overflow-free range.
 #[inline(always)]
-unsafe fn wave<F: Arith, const V: usize, const PASSING: bool, const X512: bool>(
+unsafe fn wave<F: Arith, const V: usize, const PASSING: bool, const X512: bool, const C: usize>(
     p: &Params,
     secs: &[SectionCoefs],
-    state: &mut [[i64; 6]],
-    buf: &mut [i64],
-) -> bool {
+    states: [&mut [[i64; 6]]; C],
+    bufs: [&mut [i64]; C],
+) -> [bool; C] {
     let lanes = 4 * V;
     let pad = lanes - secs.len();
-    let m = buf.len();
+    let m = bufs[0].len();
     // Lane values to registers, section k in lane pad + k.
     let regs = |value: &dyn Fn(usize) -> i64| -> Regs<V> {
         let mut a = [0i64; WAVE];
@@ -207,50 +239,95 @@ unsafe fn wave<F: Arith, const V: usize, const PASSING: bool, const X512: bool>(
         acc_lo: _mm256_set1_epi64x(p.acc_lo),
         acc_hi: _mm256_set1_epi64x(p.acc_hi),
         unbias: _mm256_set1_epi64x(-p.data_lo),
+        data_bits: _mm256_set1_epi64x(i64::from(64 - p.data_wrap)),
     };
-    let mut s: States<V> = std::array::from_fn(|j| regs(&|k| state[k][j]));
-    let mut x: Regs<V> = [_mm256_set1_epi64x(buf[0]); V];
-    let mut bad =
-        Bad::<V> { marks: _mm256_setzero_si256(), lowest: wave.fast_lo, highest: wave.fast_lo };
+    let mut c = 0;
+    let mut chains = bufs.map(|buf| {
+        let s = std::array::from_fn(|j| regs(&|k| states[c][k][j]));
+        c += 1;
+        let bad = Bad { marks: _mm256_setzero_si256(), offsets: _mm256_setzero_si256() };
+        Chain { s, x: [_mm256_set1_epi64x(buf[0]); V], bad, buf }
+    });
     let body = lanes - 1..(m - 1).max(lanes - 1);
     for t in 0..body.start {
-        wave.step::<F, true, PASSING, X512>(&mut s, &mut x, &mut bad, buf, t);
+        wave.steps::<F, true, PASSING, X512>(&mut chains, t);
     }
-    for t in body.clone() {
-        wave.step::<F, false, PASSING, X512>(&mut s, &mut x, &mut bad, buf, t);
+    // Two steps an iteration: the states' move from one sample to the next is then a
+    // renaming of registers rather than copies between them.
+    let pairs = body.start..body.end - body.len() % 2;
+    for t in pairs.clone().step_by(2) {
+        wave.steps::<F, false, PASSING, X512>(&mut chains, t);
+        wave.steps::<F, false, PASSING, X512>(&mut chains, t + 1);
+    }
+    for t in pairs.end..body.end {
+        wave.steps::<F, false, PASSING, X512>(&mut chains, t);
     }
     for t in body.end..m + lanes - 1 {
-        wave.step::<F, true, PASSING, X512>(&mut s, &mut x, &mut bad, buf, t);
+        wave.steps::<F, true, PASSING, X512>(&mut chains, t);
     }
-    for v in 0..V {
-        let (lo, hi) = (wave.fast_lo[v], wave.fast_hi[v]);
-        bad.marks = _mm256_or_si256(bad.marks, outside(bad.lowest[v], lo, hi));
-        bad.marks = _mm256_or_si256(bad.marks, outside(bad.highest[v], lo, hi));
+    let mut done = [false; C];
+    for ((chain, state), done) in chains.iter_mut().zip(states).zip(&mut done) {
+        *done = wave.finish::<F>(chain, state);
     }
-    if _mm256_movemask_pd(_mm256_castsi256_pd(bad.marks)) != 0 {
-        return false;
-    }
-    for (j, r) in s.iter().enumerate() {
-        let mut a = [0i64; WAVE];
-        for (v, reg) in r.iter().enumerate() {
-            store(&mut a[4 * v..], *reg);
-        }
-        for (k, st) in state.iter_mut().enumerate() {
-            st[j] = a[pad + k];
-        }
-    }
-    if !F::DF2T && F::EF == 0 {
-        // As the scalar path: without feedback each sample shifts e1 to e2 and
-        // stores e1 = 0.
-        for st in state.iter_mut() {
-            st[5] = if m == 1 { st[4] } else { 0 };
-            st[4] = 0;
-        }
-    }
-    true
+    done
 }
 
 impl<const V: usize> Wave<V> {
+    /// [`Wave::step`] `t` of each chain, the pair written out: a loop over it is not
+    /// unrolled (its body is a whole step), which would leave the chains' registers in
+    /// memory.
+    #[inline(always)]
+    unsafe fn steps<F: Arith, const MASKED: bool, const PASSING: bool, const X512: bool>(
+        &self,
+        chains: &mut [Chain<V>],
+        t: usize,
+    ) {
+        match chains {
+            [a, b] => {
+                self.step::<F, MASKED, PASSING, X512>(a, t);
+                self.step::<F, MASKED, PASSING, X512>(b, t);
+            }
+            _ => {
+                // A loop rather than a closure, which would not be inlined.
+                for chain in chains {
+                    self.step::<F, MASKED, PASSING, X512>(chain, t);
+                }
+            }
+        }
+    }
+
+    /// Whether `chain` stayed in its overflow-free range; if so, its states to
+    /// `state`.
+    #[inline(always)]
+    unsafe fn finish<F: Arith>(&self, chain: &mut Chain<V>, state: &mut [[i64; 6]]) -> bool {
+        let bad = &chain.bad;
+        // An offset of 2^D or more, or a negative one, has bits from D up.
+        let wide = _mm256_srlv_epi64(bad.offsets, self.data_bits);
+        if _mm256_movemask_pd(_mm256_castsi256_pd(bad.marks)) != 0
+            || _mm256_testz_si256(wide, wide) == 0
+        {
+            return false;
+        }
+        for (j, r) in chain.s.iter().enumerate() {
+            let mut a = [0i64; WAVE];
+            for (v, reg) in r.iter().enumerate() {
+                store(&mut a[4 * v..], *reg);
+            }
+            for (k, st) in state.iter_mut().enumerate() {
+                st[j] = a[self.pad + k];
+            }
+        }
+        if !F::DF2T && F::EF == 0 {
+            // As the scalar path: without feedback each sample shifts e1 to e2 and
+            // stores e1 = 0.
+            for st in state.iter_mut() {
+                st[5] = if self.m == 1 { st[4] } else { 0 };
+                st[4] = 0;
+            }
+        }
+        true
+    }
+
     /// Step `t`: lane l runs sample t − l. `MASKED` outside the body: lanes without a
     /// sample keep their states and mark nothing. Writes the last lane's output and
     /// moves every lane's output (or passed input) to the next lane. Marks `bad` (sign
@@ -258,12 +335,10 @@ impl<const V: usize> Wave<V> {
     #[inline(always)]
     unsafe fn step<F: Arith, const MASKED: bool, const PASSING: bool, const X512: bool>(
         &self,
-        s: &mut States<V>,
-        x: &mut Regs<V>,
-        bad: &mut Bad<V>,
-        buf: &mut [i64],
+        chain: &mut Chain<V>,
         t: usize,
     ) {
+        let Chain { s, x, bad, buf } = chain;
         let (lanes, m, pad) = (4 * V, self.m, self.pad);
         let [b0, b1, b2, a1, a2] = &self.c;
         let mut out = [_mm256_setzero_si256(); V];
@@ -283,8 +358,8 @@ impl<const V: usize> Wave<V> {
             let y;
             if F::DF2T {
                 let acc = add::<F>(mul(b0[v], xv), s[0][v], &mut marks);
-                self.check::<MASKED, X512>(&mut marks, bad, acc, v);
                 y = self.round::<F, X512>(acc, v, false);
+                self.check::<MASKED, X512>(&mut marks, bad, acc, y, v);
                 let n1 = add::<F>(sub(mul(b1[v], xv), mul(a1[v], y)), s[1][v], &mut marks);
                 let n2 = sub(mul(b2[v], xv), mul(a2[v], y));
                 if !F::WIDE {
@@ -294,9 +369,10 @@ impl<const V: usize> Wave<V> {
                 s[0][v] = keep::<MASKED>(s[0][v], n1, active);
                 s[1][v] = keep::<MASKED>(s[1][v], n2, active);
             } else {
-                // The sample's own product last: it waits on the previous lane.
+                // The sample's own product last (it waits on the previous lane), and
+                // before it the product of y1 (the lane's own output of the step
+                // before); [`opaque`] keeps the compiler from regrouping the sum.
                 let mut sum = add::<F>(mul(b1[v], s[0][v]), mul(b2[v], s[1][v]), &mut marks);
-                sum = subtract::<F>(sum, mul(a1[v], s[2][v]), &mut marks);
                 sum = subtract::<F>(sum, mul(a2[v], s[3][v]), &mut marks);
                 match F::EF {
                     0 => {}
@@ -312,9 +388,10 @@ impl<const V: usize> Wave<V> {
                     // The addend before the sample's product, off its path.
                     sum = add::<F>(sum, self.addend[v], &mut marks);
                 }
-                sum = add::<F>(sum, mul(b0[v], xv), &mut marks);
-                self.check::<MASKED, X512>(&mut marks, bad, sum, v);
+                sum = subtract::<F>(opaque(sum), mul(a1[v], s[2][v]), &mut marks);
+                sum = add::<F>(opaque(sum), mul(b0[v], xv), &mut marks);
                 y = self.round::<F, X512>(sum, v, halve);
+                self.check::<MASKED, X512>(&mut marks, bad, sum, y, v);
                 let mut next = [xv, s[0][v], y, s[2][v], s[4][v], s[5][v]];
                 if F::EF > 0 {
                     let sum = if halve { sub(sum, self.addend[v]) } else { sum };
@@ -355,21 +432,25 @@ impl<const V: usize> Wave<V> {
         }
     }
 
-    /// Checks that lane `v`'s `sum` lies in the fast range: with AVX-512, outside the
-    /// masked steps, by keeping the lowest and highest sums of the pass (two
-    /// operations instead of two comparisons and three logical ones), checked once at
-    /// its end; otherwise by setting `marks` where it does not.
+    /// Checks a narrowing of lane `v`, from `sum` to `y`. With AVX-512, outside the
+    /// masked steps, `y` is exact for any sum (the arithmetic shift floors every
+    /// value), so it checks what the exact path would do: that y fits the data word,
+    /// by ORing y − data_lo into one register per chain (two operations, checked once
+    /// at the end of the pass, [`Wave::finish`]). Then the accumulator's fit is the
+    /// identity too: |sum| < 2^(D−1+r) + 2^r ≤ 2^(A−1), as D + r < A (see
+    /// `SectionCoefs`). Otherwise it sets `marks` where `sum` leaves the fast range,
+    /// inside which the AVX2 rounding is exact.
     #[inline(always)]
     unsafe fn check<const MASKED: bool, const X512: bool>(
         &self,
         marks: &mut __m256i,
-        bad: &mut Bad<V>,
+        bad: &mut Bad,
         sum: __m256i,
+        y: __m256i,
         v: usize,
     ) {
         if X512 && !MASKED {
-            bad.lowest[v] = _mm256_min_epi64(bad.lowest[v], sum);
-            bad.highest[v] = _mm256_max_epi64(bad.highest[v], sum);
+            bad.offsets = _mm256_or_si256(bad.offsets, _mm256_add_epi64(y, self.unbias));
         } else {
             *marks = _mm256_or_si256(*marks, outside(sum, self.fast_lo[v], self.fast_hi[v]));
         }
@@ -444,6 +525,24 @@ unsafe fn store(a: &mut [i64], r: __m256i) {
 #[inline(always)]
 unsafe fn mul(a: __m256i, b: __m256i) -> __m256i {
     _mm256_mul_epi32(a, b)
+}
+
+/// `v`, unseen by the optimiser, which therefore cannot regroup a sum formed before it
+/// with the terms added after. LLVM reassociates integer sums freely, and put the
+/// sample's product first and three additions after it, on the path from one lane to
+/// the next. Emits no instruction.
+#[inline]
+#[target_feature(enable = "avx")]
+unsafe fn opaque(mut v: __m256i) -> __m256i {
+    // SAFETY: the template is empty: no instruction, no memory, no flags, no stack.
+    unsafe {
+        std::arch::asm!(
+            "/* {0} */",
+            inout(ymm_reg) v,
+            options(pure, nomem, nostack, preserves_flags),
+        );
+    }
+    v
 }
 
 /// a − b, wrapping; used where it cannot overflow.
