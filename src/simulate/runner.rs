@@ -5,10 +5,12 @@
 //! converts to `data_bits` integers with [`SampleScale::to_int`] (exact for input words
 //! no wider than `data_bits`, rounded and saturated otherwise) and back exactly.
 //!
-//! A fixed target runs one mono engine per channel, on as many cores as rayon has:
-//! channels share no state, so the output is the same as one engine over the
-//! interleaved frames (tests/fixed_point.rs checks it), and one channel at a time is
-//! also the fixed kernels' fastest order.
+//! A fixed target runs one engine per pair of adjacent channels (the last alone when
+//! their count is odd), the pairs in parallel on as many cores as rayon has: pairs
+//! share no state, so the output is the same as one engine over the interleaved
+//! frames (tests/fixed_point.rs checks it), and the fixed kernels run a pair's two
+//! recursions side by side, faster than one channel after the other. A stereo block
+//! goes to its engine as it is, with no de-interleaving.
 
 use super::{check_frames, Engine, FixedEngine, FloatEngine, SampleScale};
 use crate::error::Result;
@@ -24,47 +26,52 @@ pub enum Runner {
     F64(FloatEngine<f64>),
     /// Float32 engine with its conversion buffer.
     F32(FloatEngine<f32>, Vec<f32>),
-    /// Bit-exact fixed-point engines, one per channel, and their sample scale.
-    Fixed(Vec<FixedChannel>, SampleScale),
+    /// Bit-exact fixed-point engines, one per pair of channels, and their sample scale.
+    Fixed(Vec<FixedGroup>, SampleScale),
 }
 
-/// Converts each channel of `input` to integers and runs its engine, the channels in
-/// parallel.
-fn run_fixed(channels: &mut [FixedChannel], scale: SampleScale, input: &[f64]) -> Result<()> {
-    let n = channels.len();
+/// Converts each group's channels of `input` to integers and runs its engine, the
+/// groups in parallel.
+fn run_fixed(groups: &mut [FixedGroup], scale: SampleScale, input: &[f64]) -> Result<()> {
+    let n = groups.iter().map(|g| g.width).sum();
     check_frames(input.len(), n)?;
-    channels.par_iter_mut().enumerate().try_for_each(|(c, channel)| {
-        channel.samples.resize(input.len() / n, 0);
-        let samples = &mut channel.samples[..];
+    groups.par_iter_mut().try_for_each(|group| {
+        let (first, width) = (group.first, group.width);
+        group.samples.resize(input.len() / n * width, 0);
+        let samples = &mut group.samples[..];
         Isa::run_widest(
             #[inline(always)]
-            || match n {
-                1 => convert(samples, input, |x| scale.to_int(*x)),
-                // A constant index, or the loop does not vectorise.
-                2 if c == 0 => convert(samples, input.as_chunks::<2>().0, |f| scale.to_int(f[0])),
-                2 => convert(samples, input.as_chunks::<2>().0, |f| scale.to_int(f[1])),
-                _ => convert(samples, input.chunks_exact(n), |f| scale.to_int(f[c])),
+            || {
+                if width == n {
+                    convert(samples, input, |x| scale.to_int(*x));
+                } else if width == 2 {
+                    let pairs = samples.as_chunks_mut::<2>().0;
+                    convert(pairs, input.chunks_exact(n), |f| {
+                        [scale.to_int(f[first]), scale.to_int(f[first + 1])]
+                    });
+                } else {
+                    convert(samples, input.chunks_exact(n), |f| scale.to_int(f[first]));
+                }
             },
         );
-        channel.engine.process(samples)
+        group.engine.process(samples)
     })
 }
 
-/// Interleaves the channels' outputs into `output` as fractions of full scale.
-fn write_fixed(channels: &[FixedChannel], scale: SampleScale, output: &mut [f64]) {
+/// Interleaves the groups' outputs into `output` as fractions of full scale.
+fn write_fixed(groups: &[FixedGroup], scale: SampleScale, output: &mut [f64]) {
     Isa::run_widest(
         #[inline(always)]
-        || match channels {
-            [mono] => convert(output, &mono.samples, |&y| scale.to_f64(y)),
-            [left, right] => convert(
-                output.as_chunks_mut::<2>().0,
-                left.samples.iter().zip(&right.samples),
-                |(&l, &r)| [scale.to_f64(l), scale.to_f64(r)],
-            ),
+        || match groups {
+            [all] => convert(output, &all.samples, |&y| scale.to_f64(y)),
             _ => {
-                for (i, frame) in output.chunks_exact_mut(channels.len()).enumerate() {
-                    for (x, channel) in frame.iter_mut().zip(channels) {
-                        *x = scale.to_f64(channel.samples[i]);
+                let n = groups.iter().map(|g| g.width).sum();
+                for group in groups {
+                    let frames = group.samples.chunks_exact(group.width);
+                    for (frame, ys) in output.chunks_exact_mut(n).zip(frames) {
+                        for (x, &y) in frame[group.first..].iter_mut().zip(ys) {
+                            *x = scale.to_f64(y);
+                        }
                     }
                 }
             }
@@ -80,10 +87,13 @@ fn convert<'a, T: 'a, U>(to: &mut [T], from: impl IntoIterator<Item = U>, f: imp
     }
 }
 
-/// A mono fixed-point engine and its channel's samples as integers.
+/// A fixed-point engine over `width` (1 or 2) adjacent channels from `first`, and
+/// their samples as interleaved integers.
 #[derive(Debug, Clone)]
-pub struct FixedChannel {
+pub struct FixedGroup {
     engine: FixedEngine,
+    first: usize,
+    width: usize,
     samples: Vec<i32>,
 }
 
@@ -99,9 +109,15 @@ impl Runner {
             Realized::F32(c) => Runner::F32(FloatEngine::new(c, structure, channels)?, Vec::new()),
             Realized::Fixed(f) => {
                 super::check_channels(channels)?;
-                let engine = FixedEngine::new(f, 1)?;
-                let channel = FixedChannel { engine, samples: Vec::new() };
-                Runner::Fixed(vec![channel; channels], SampleScale::new(f.format.data_bits)?)
+                let groups = (0..channels)
+                    .step_by(2)
+                    .map(|first| {
+                        let width = (channels - first).min(2);
+                        let engine = FixedEngine::new(f, width)?;
+                        Ok(FixedGroup { engine, first, width, samples: Vec::new() })
+                    })
+                    .collect::<Result<_>>()?;
+                Runner::Fixed(groups, SampleScale::new(f.format.data_bits)?)
             }
         })
     }
@@ -120,9 +136,9 @@ impl Runner {
                 convert(block, &*buf, |&y| f64::from(y));
                 Ok(())
             }
-            Runner::Fixed(channels, scale) => {
-                run_fixed(channels, *scale, block)?;
-                write_fixed(channels, *scale, block);
+            Runner::Fixed(groups, scale) => {
+                run_fixed(groups, *scale, block)?;
+                write_fixed(groups, *scale, block);
                 Ok(())
             }
         }
@@ -135,10 +151,10 @@ impl Runner {
     /// A block that is not whole frames.
     pub fn process_from(&mut self, input: &[f64], output: &mut Vec<f64>) -> Result<()> {
         match self {
-            Runner::Fixed(channels, scale) => {
-                run_fixed(channels, *scale, input)?;
+            Runner::Fixed(groups, scale) => {
+                run_fixed(groups, *scale, input)?;
                 output.resize(input.len(), 0.0);
-                write_fixed(channels, *scale, output);
+                write_fixed(groups, *scale, output);
                 Ok(())
             }
             _ => {
@@ -152,7 +168,7 @@ impl Runner {
     /// Internal overflow events so far (saturations or wraps; 0 for float engines).
     pub fn overflows(&self) -> u64 {
         match self {
-            Runner::Fixed(channels, _) => channels.iter().map(|c| c.engine.overflows()).sum(),
+            Runner::Fixed(groups, _) => groups.iter().map(|g| g.engine.overflows()).sum(),
             _ => 0,
         }
     }
