@@ -664,7 +664,10 @@ fn fixed_kernels_equal_the_literal_arithmetic_over_passes_and_waves() {
     // its first section) into saturation or wrap, every format family and structure,
     // every build. One, two and three channels with the loud stretch in channel 1 of
     // the pair (or the one channel): the kernels run channels in pairs, an odd one
-    // alone, and redo a marked wave only for the channel that left its range.
+    // alone, and redo a channel's marked wave from that channel's own saved state.
+    // (The quieter channel overflows too, so that only the marked channel is redone
+    // is left to the literal-arithmetic proptest, which catches a redo of the wrong
+    // one.)
     let sections: Vec<Sos> = (0..13)
         .map(|k| {
             let f = 0.03 + 0.9 * f64::from(k) / 13.0;
