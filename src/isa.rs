@@ -3,7 +3,7 @@
 //! The release binary targets baseline x86-64 (SSE2); wider kernels are compiled with
 //! `#[target_feature]` and chosen only after `is_x86_feature_detected!` has found what
 //! they use. Every build gives the same output bit for bit (tests/fixed_point.rs for
-//! the engines; the block loops of [`Isa::run`] are plain Rust, whose float results
+//! the engines; the block loops of [`Isa::run_widest`] are plain Rust, whose float results
 //! do not depend on the vector width: no build enables FMA contraction).
 
 /// An instruction set; each includes the ones before it. Public in name only (the

@@ -6,7 +6,7 @@
 //! see [`Runner`]). Each task owns what it touches, so the outputs are those of the
 //! plain sequential loop, byte for byte.
 
-use crate::audio::metrics::{LevelMeter, ToneMeter};
+use crate::audio::metrics::{powers, LevelMeter, ToneMeter};
 use crate::audio::{WavReader, WavWriter};
 use crate::error::Result;
 use crate::simulate::Runner;
@@ -179,23 +179,4 @@ fn tone_samples(
 ) -> impl Iterator<Item = f64> + '_ {
     let skip = settle.saturating_sub(first_frame) as usize;
     block.iter().step_by(channels).skip(skip).copied()
-}
-
-/// Σ r² of the reference and Σ (t − r)² of the target's error, each in eight running
-/// sums so the loop vectorises; one pass over both blocks.
-fn powers(target: &[f64], reference: &[f64]) -> (f64, f64) {
-    let (t_runs, t_rest) = target.as_chunks::<8>();
-    let (r_runs, r_rest) = reference.as_chunks::<8>();
-    let (mut signal, mut error) = ([0.0; 8], [0.0; 8]);
-    for (t, r) in t_runs.iter().zip(r_runs) {
-        for l in 0..8 {
-            signal[l] += r[l] * r[l];
-            let e = t[l] - r[l];
-            error[l] += e * e;
-        }
-    }
-    let rest = t_rest.iter().zip(r_rest);
-    let signal_rest: f64 = r_rest.iter().map(|r| r * r).sum();
-    let error_rest: f64 = rest.map(|(t, r)| (t - r) * (t - r)).sum();
-    (signal.iter().sum::<f64>() + signal_rest, error.iter().sum::<f64>() + error_rest)
 }
