@@ -114,6 +114,25 @@ fn exact_notch_removes_the_hum_fundamental_by_more_than_60_db() {
 }
 
 #[test]
+fn a_file_too_short_to_resolve_the_stop_frequency_reports_no_rejection_and_says_why() {
+    // 0.4 s holds at most 20 periods of 50 Hz, fewer once the notch's poles settle: too
+    // few for a Hann-windowed Goertzel to tell the hum from the noise around it.
+    let dir = scratch("recordings", "short");
+    let input = dir.join("short-hum.wav");
+    hum_recording(&input, 0.4);
+    let d = design::load(&repo("audio-demos/hum-reject-50.toml")).unwrap();
+    let outputs =
+        Outputs { main: dir.join("out.wav"), float: None, residual: None, residual_gain_db: 0.0 };
+    let r = apply_file(&d, &input, &outputs, &options(d.target.number), &|_| {}).unwrap();
+    assert_eq!(r.rejection, None);
+    assert!(
+        r.warnings.iter().any(|w| w.contains("too short to measure the rejection at 50.00 Hz")),
+        "{:?}",
+        r.warnings
+    );
+}
+
+#[test]
 fn a_q15_run_written_to_16_bits_is_exactly_the_fixed_engine_output() {
     // No dither is added when the output word equals the processing word, so the file
     // holds the kernel's integers (the bit-exactness the export check relies on).

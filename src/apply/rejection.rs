@@ -18,6 +18,12 @@ pub struct StopBand {
 /// Depth below the response's peak that makes a design band-reject for reporting.
 pub const BAND_REJECT_DB: f64 = 10.0;
 
+/// Periods of the stop frequency the metered part of a file must hold for the rejection
+/// to be reported: a Hann window's main lobe spans ±2 bins of rate/length (Harris 1978),
+/// so over 20 periods it stays within ±10 % of the stop frequency instead of taking in
+/// the content around it.
+pub const MIN_TONE_PERIODS: f64 = 20.0;
+
 /// The deepest minimum of |H| strictly inside 20 Hz to 0.45·rate, when it lies at least
 /// [`BAND_REJECT_DB`] below the response at both ends of that band (a dip, not a
 /// low-pass or high-pass skirt).

@@ -90,7 +90,16 @@ impl FileReport {
                 r.hz, r.measured_db
             );
         }
-        let _ = writeln!(t, "  {:.2} s, {:.0}x real time", self.seconds, self.realtime_factor);
+        // Three significant digits down to 1x: a short file runs in a blink.
+        let digits = if self.realtime_factor >= 100.0 {
+            0
+        } else if self.realtime_factor >= 10.0 {
+            1
+        } else {
+            2
+        };
+        let _ =
+            writeln!(t, "  {:.2} s, {:.digits$}x real time", self.seconds, self.realtime_factor);
         for w in &self.warnings {
             let _ = writeln!(t, "  warning: {w}");
         }

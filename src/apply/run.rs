@@ -1,7 +1,7 @@
 //! One file through the engines, streaming.
 
 use super::blocks::{self, Stages};
-use super::rejection::stop_frequency;
+use super::rejection::{stop_frequency, MIN_TONE_PERIODS};
 use super::report::{FileReport, Rejection};
 use crate::audio::metrics::{amp_to_db, LevelMeter, ToneMeter};
 use crate::audio::{SampleFormat, WavReader, WavSpec, WavWriter};
@@ -167,11 +167,23 @@ pub fn apply_file(
     let residual_gain = 10f64.powf(outputs.residual_gain_db / 20.0);
 
     let frames = reader.frames();
-    let stop = stop_frequency(&effective);
     // Measure the rejection after the slowest pole has settled (e^−7 ≈ 1e−3).
     let radius = max_pole_radius(&effective.sections);
     let settle = ((7.0 / (1.0 - radius).max(1e-9)).ceil() as u64).min(frames / 4);
     let meter_len = (frames - settle) as usize;
+    let stop = stop_frequency(&effective).filter(|s| {
+        let periods = meter_len as f64 * s.hz / f64::from(spec.rate);
+        let enough = periods >= MIN_TONE_PERIODS;
+        if !enough {
+            warnings.push(format!(
+                "{}: too short to measure the rejection at {:.2} Hz ({periods:.1} periods after \
+                 the filter settles, {MIN_TONE_PERIODS} needed)",
+                input.display(),
+                s.hz
+            ));
+        }
+        enough
+    });
     let mut tone_in = stop.map(|s| ToneMeter::new(f64::from(spec.rate), s.hz, meter_len));
     let mut tone_out = tone_in.clone();
     let mut levels_in = LevelMeter::new(spec.channels, spec.sample);
