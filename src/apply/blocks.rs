@@ -107,35 +107,27 @@ pub(super) fn run(stages: Stages<'_>, progress: &(dyn Fn(u64) + Sync)) -> Result
             (*finished_from, &*target_done, &*reference_done);
         let ran = !finished.is_empty();
         let compared = reference.is_some();
+        // Spawned so that the two cores share the step evenly: the scope's own thread
+        // takes its tasks newest first, a thief takes them oldest first. The reference
+        // engine, spawned last, starts at once on this thread while the target engine,
+        // spawned first, is stolen; the reads and writes between them fill whichever
+        // core frees first.
         rayon::scope(|s| {
             if !input.is_empty() {
                 let engine = &mut *target;
                 s.spawn(move |_| *run_target = engine.process_from(input, run_out));
-                let (levels, tone, engine) = (&mut *levels_in, &mut tone_in, &mut reference);
-                s.spawn(move |_| {
-                    levels.add(input);
-                    if let Some(t) = tone {
-                        t.add(tone_samples(input, channels, settle, first_frame));
-                    }
-                    if let Some(e) = engine {
-                        *run_reference = e.process_from(input, reference_run);
-                    }
-                });
-            }
-            if ran {
-                let (levels, tone, out) = (&mut *levels_out, &mut tone_out, &mut *target_out);
-                s.spawn(move |_| {
-                    levels.add(target_done);
-                    if let Some(t) = tone {
-                        t.add(tone_samples(target_done, channels, settle, finished_from));
-                    }
-                    *finish_target = out.write_block(target_done);
-                });
             }
             if ran && compared {
                 if let Some(w) = &mut reference_out {
                     s.spawn(move |_| *finish_reference = w.write_block(reference_done));
                 }
+            }
+            {
+                // At the end this empties `next`, which ends the loop.
+                let (reader, into) = (&mut *reader, &mut next.input);
+                s.spawn(move |_| *read = reader.read_block(into, BLOCK_FRAMES).map(|_| ()));
+            }
+            if ran && compared {
                 let (out, signal, error) = (&mut residual_out, &mut signal_power, &mut error_power);
                 s.spawn(move |_| {
                     (*signal, *error) = powers(target_done, reference_done);
@@ -151,10 +143,27 @@ pub(super) fn run(stages: Stages<'_>, progress: &(dyn Fn(u64) + Sync)) -> Result
                     }
                 });
             }
-            {
-                // At the end this empties `next`, which ends the loop.
-                let (reader, into) = (&mut *reader, &mut next.input);
-                s.spawn(move |_| *read = reader.read_block(into, BLOCK_FRAMES).map(|_| ()));
+            if ran {
+                let (levels, tone, out) = (&mut *levels_out, &mut tone_out, &mut *target_out);
+                s.spawn(move |_| {
+                    levels.add(target_done);
+                    if let Some(t) = tone {
+                        t.add(tone_samples(target_done, channels, settle, finished_from));
+                    }
+                    *finish_target = out.write_block(target_done);
+                });
+            }
+            if !input.is_empty() {
+                let (levels, tone, engine) = (&mut *levels_in, &mut tone_in, &mut reference);
+                s.spawn(move |_| {
+                    levels.add(input);
+                    if let Some(t) = tone {
+                        t.add(tone_samples(input, channels, settle, first_frame));
+                    }
+                    if let Some(e) = engine {
+                        *run_reference = e.process_from(input, reference_run);
+                    }
+                });
             }
         });
         for r in results {
