@@ -85,7 +85,8 @@ impl SignalSpec {
         let frames = (self.seconds * f64::from(self.rate)).round();
         if frames * f64::from(self.channels) > MAX_SAMPLES as f64 {
             return Err(Error::input(format!(
-                "signal: {} s of {} channels at {} Hz is more than {MAX_SAMPLES} samples",
+                "signal: {} s of {} channel(s) at {} Hz is more than {MAX_SAMPLES} samples \
+                 (2^28), the most a signal is built from in memory",
                 self.seconds, self.channels, self.rate
             )));
         }
