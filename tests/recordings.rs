@@ -4,7 +4,7 @@
 mod common;
 
 use common::{cli, names_in, repo, scratch};
-use tonewright::apply::{apply_file, ApplyOptions, Outputs, BLOCK_FRAMES};
+use tonewright::apply::{apply_file, ApplyOptions, FileReport, Outputs, BLOCK_FRAMES};
 use tonewright::audio::signal::{mix_hum, white_noise, Mains, SignalSpec};
 use tonewright::audio::{SampleFormat, WavReader, WavSpec, WavWriter};
 use tonewright::design;
@@ -98,15 +98,21 @@ fn measured_hum_rejection_matches_the_designed_cut_within_one_db() {
     }
 }
 
-#[test]
-fn exact_notch_removes_the_hum_fundamental_by_more_than_60_db() {
-    let dir = scratch("recordings", "notch");
+/// The bundled hum band-reject applied in its own arithmetic to `seconds` of
+/// [`hum_recording`], in the scratch folder `name`.
+fn hum_demo_over_hum(name: &str, seconds: f64) -> FileReport {
+    let dir = scratch("recordings", name);
     let input = dir.join("bench-hum.wav");
-    hum_recording(&input, 6.0);
+    hum_recording(&input, seconds);
     let d = design::load(&repo("audio-demos/hum-reject-50.toml")).unwrap();
     let outputs =
         Outputs { main: dir.join("out.wav"), float: None, residual: None, residual_gain_db: 0.0 };
-    let r = apply_file(&d, &input, &outputs, &options(d.target.number), &|_| {}).unwrap();
+    apply_file(&d, &input, &outputs, &options(d.target.number), &|_| {}).unwrap()
+}
+
+#[test]
+fn exact_notch_removes_the_hum_fundamental_by_more_than_60_db() {
+    let r = hum_demo_over_hum("notch", 6.0);
     let rejection = r.rejection.unwrap();
     assert_eq!(rejection.predicted_db, None, "an exact zero predicts unbounded rejection");
     assert!(rejection.measured_db > 60.0, "{}", rejection.measured_db);
@@ -117,13 +123,7 @@ fn exact_notch_removes_the_hum_fundamental_by_more_than_60_db() {
 fn a_file_too_short_to_resolve_the_stop_frequency_reports_no_rejection_and_says_why() {
     // 0.4 s holds at most 20 periods of 50 Hz, fewer once the notch's poles settle: too
     // few for a Hann-windowed Goertzel to tell the hum from the noise around it.
-    let dir = scratch("recordings", "short");
-    let input = dir.join("short-hum.wav");
-    hum_recording(&input, 0.4);
-    let d = design::load(&repo("audio-demos/hum-reject-50.toml")).unwrap();
-    let outputs =
-        Outputs { main: dir.join("out.wav"), float: None, residual: None, residual_gain_db: 0.0 };
-    let r = apply_file(&d, &input, &outputs, &options(d.target.number), &|_| {}).unwrap();
+    let r = hum_demo_over_hum("short", 0.4);
     assert_eq!(r.rejection, None);
     assert!(
         r.warnings.iter().any(|w| w.contains("too short to measure the rejection at 50.00 Hz")),
