@@ -169,8 +169,9 @@ pub fn snr_db(signal: &[f64], reference: &[f64]) -> Result<f64> {
 }
 
 /// Σ r² of `reference` and Σ (s − r)² of `signal`'s error against it, each in eight
-/// running sums so the loop vectorises; one pass over both (to the shorter's length).
+/// running sums so the loop vectorises; one pass over both, which have equal lengths.
 pub fn powers(signal: &[f64], reference: &[f64]) -> (f64, f64) {
+    debug_assert_eq!(signal.len(), reference.len());
     let (s_runs, s_rest) = signal.as_chunks::<8>();
     let (r_runs, r_rest) = reference.as_chunks::<8>();
     let (mut power, mut error) = ([0.0; 8], [0.0; 8]);

@@ -240,8 +240,8 @@ fn count_overs(samples: &[f64]) -> u64 {
 /// Encodes `samples` as `BITS`-bit integer codes of `BYTES` little-endian bytes
 /// (8-bit: unsigned, offset 128): each is scaled by 2^(BITS−1), dithered by the
 /// `dither` values in LSB (none: 0), rounded to the nearest code (ties to even) and
-/// clipped to the extreme codes. Returns the number of clips, NaN samples included (their bytes are
-/// meaningless).
+/// clipped to the extreme codes. Returns the number of clips, NaN samples included
+/// (their bytes are meaningless).
 fn encode<const BYTES: usize, const BITS: u32>(
     samples: &[f64],
     out: &mut [u8],

@@ -33,7 +33,7 @@ pub enum Runner {
 /// Converts each group's channels of `input` to integers and runs its engine, the
 /// groups in parallel.
 fn run_fixed(groups: &mut [FixedGroup], scale: SampleScale, input: &[f64]) -> Result<()> {
-    let n = groups.iter().map(|g| g.width).sum();
+    let n = channel_count(groups);
     check_frames(input.len(), n)?;
     groups.par_iter_mut().try_for_each(|group| {
         let (first, width) = (group.first, group.width);
@@ -58,6 +58,11 @@ fn run_fixed(groups: &mut [FixedGroup], scale: SampleScale, input: &[f64]) -> Re
     })
 }
 
+/// The channels of all `groups` together.
+fn channel_count(groups: &[FixedGroup]) -> usize {
+    groups.iter().map(|g| g.width).sum()
+}
+
 /// Interleaves the groups' outputs into `output` as fractions of full scale.
 fn write_fixed(groups: &[FixedGroup], scale: SampleScale, output: &mut [f64]) {
     Isa::run_widest(
@@ -65,7 +70,7 @@ fn write_fixed(groups: &[FixedGroup], scale: SampleScale, output: &mut [f64]) {
         || match groups {
             [all] => convert(output, &all.samples, |&y| scale.to_f64(y)),
             _ => {
-                let n = groups.iter().map(|g| g.width).sum();
+                let n = channel_count(groups);
                 for group in groups {
                     let frames = group.samples.chunks_exact(group.width);
                     for (frame, ys) in output.chunks_exact_mut(n).zip(frames) {
